@@ -65,28 +65,33 @@ export function simulateRange(
   const normals = new Float64Array(D);
   const gross = new Float64Array(D);
   const correlated = new Float64Array(F);
-  let stream: RandomStream | null = null;
-  let next: () => number = () => 0;
-  let streamIndex = -1;
+  let streamIndex = Math.floor((antithetic ? Math.floor(start / 2) : start) / PATHS_PER_STREAM);
+  let stream: RandomStream = createStream(scenario.seed, streamIndex);
+  let next = stream.next;
   let position = 0; // draw sets consumed from the current stream
   let heldSet = -1; // draw set currently in `normals`
   const progressEvery = 256;
+  // Imported bindings are read once: compiled CommonJS turns each use into a property read.
+  const quantile = standardNormalQuantile;
+  const openUnit = toOpenUnit;
+  const perStream = PATHS_PER_STREAM;
+  const newStream = createStream;
 
   for (let p = start; p < end; p++) {
     const j = p - start;
     const drawSet = antithetic ? Math.floor(p / 2) : p;
     const sign = antithetic && p % 2 === 1 ? -1 : 1;
     if (drawSet !== heldSet) {
-      const block = Math.floor(drawSet / PATHS_PER_STREAM);
-      const offset = drawSet - block * PATHS_PER_STREAM;
+      const block = Math.floor(drawSet / perStream);
+      const offset = drawSet - block * perStream;
       if (block !== streamIndex || offset < position) {
-        stream = createStream(scenario.seed, block);
+        stream = newStream(scenario.seed, block);
         next = stream.next;
         streamIndex = block;
         position = 0;
       }
       for (let skip = (offset - position) * D; skip > 0; skip--) next();
-      for (let k = 0; k < D; k++) normals[k] = standardNormalQuantile(toOpenUnit(next()));
+      for (let k = 0; k < D; k++) normals[k] = quantile(openUnit(next()));
       position = offset + 1;
       heldSet = drawSet;
     }
