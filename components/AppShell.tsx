@@ -1,0 +1,131 @@
+import type { ReactNode } from 'react';
+import { Pressable, ScrollView, Text, View, useWindowDimensions } from 'react-native';
+import { Link, usePathname } from 'expo-router';
+import { NAV_ITEMS } from '@/constants/navigation';
+import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
+import { ROLE_LABELS, can, type Role } from '@/constants/permissions';
+import { Icon } from './Icon';
+import { Wordmark } from './Wordmark';
+
+type Scheme = { id: string; name: string; role: Role };
+type Props = {
+  children: ReactNode;
+  scheme: Scheme | null;
+  schemes: Scheme[];
+  onSchemeChange: (id: string) => void;
+  userName: string;
+  onSignOut: () => void;
+};
+
+function isActive(pathname: string, href: string) {
+  return href === '/' ? pathname === '/' : pathname === href || pathname.startsWith(`${href}/`);
+}
+
+/** Phone first: bottom navigation under 768 px; a side navigation from 768 px. */
+export function AppShell({ children, scheme, schemes, onSchemeChange, userName, onSignOut }: Props) {
+  const { width } = useWindowDimensions();
+  const wide = width >= WIDE_BREAKPOINT;
+  const pathname = usePathname();
+  const items = NAV_ITEMS.filter((i) => can(scheme?.role, i.permission));
+
+  const switcher = schemes.length > 1 && (
+    <View style={{ gap: space.xs }} testID="scheme-switcher">
+      <Text style={[type.caption, { color: wide ? '#CFE0DD' : colors.mutedInk }]}>Scheme</Text>
+      {schemes.map((s) => (
+        <Pressable
+          key={s.id}
+          accessibilityRole="radio"
+          accessibilityState={{ checked: s.id === scheme?.id }}
+          onPress={() => onSchemeChange(s.id)}
+          style={{ minHeight: MIN_TOUCH, justifyContent: 'center', paddingHorizontal: space.sm, borderRadius: 6, backgroundColor: s.id === scheme?.id ? (wide ? colors.primaryPressed : colors.primaryTint) : 'transparent' }}
+        >
+          <Text style={[type.label, { color: wide ? colors.paper : colors.ink }]}>{s.name}</Text>
+        </Pressable>
+      ))}
+    </View>
+  );
+
+  if (wide) {
+    return (
+      <View style={{ flex: 1, flexDirection: 'row', backgroundColor: colors.paper }}>
+        <View role="navigation" style={{ width: 240, backgroundColor: colors.primary, padding: space.lg, gap: space.lg }}>
+          <Wordmark inverse />
+          {scheme ? (
+            <View>
+              <Text style={[type.label, { color: colors.paper }]}>{scheme.name}</Text>
+              <Text style={[type.caption, { color: '#CFE0DD' }]}>{ROLE_LABELS[scheme.role]}</Text>
+            </View>
+          ) : null}
+          <View style={{ gap: 2 }}>
+            {items.map((item) => {
+              const active = isActive(pathname, item.href);
+              return (
+                <Link key={item.href} href={item.href as never} asChild>
+                  <Pressable
+                    testID={`nav-${item.label}`}
+                    accessibilityRole="link"
+                    accessibilityState={{ selected: active }}
+                    style={{ flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: MIN_TOUCH, paddingHorizontal: space.md, borderRadius: 8, backgroundColor: active ? colors.paper : 'transparent' }}
+                  >
+                    <Icon name={item.icon} color={active ? colors.primary : colors.paper} />
+                    <Text style={[type.label, { fontSize: 16, color: active ? colors.primary : colors.paper }]}>{item.label}</Text>
+                  </Pressable>
+                </Link>
+              );
+            })}
+          </View>
+          {switcher}
+          <View style={{ flex: 1 }} />
+          <Text style={[type.caption, { color: '#CFE0DD' }]}>Signed in as {userName}</Text>
+          <Pressable accessibilityRole="button" onPress={onSignOut} style={{ flexDirection: 'row', alignItems: 'center', gap: space.sm, minHeight: MIN_TOUCH }}>
+            <Icon name="signout" color={colors.paper} />
+            <Text style={[type.label, { color: colors.paper }]}>Sign out</Text>
+          </Pressable>
+        </View>
+        <View style={{ flex: 1 }}>{children}</View>
+      </View>
+    );
+  }
+
+  return (
+    <View style={{ flex: 1, backgroundColor: colors.paper }}>
+      <View style={{ flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', paddingHorizontal: space.lg, paddingVertical: space.sm, borderBottomWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface }}>
+        <Wordmark />
+        <Pressable accessibilityRole="button" accessibilityLabel="Sign out" onPress={onSignOut} style={{ minWidth: MIN_TOUCH, minHeight: MIN_TOUCH, alignItems: 'center', justifyContent: 'center' }}>
+          <Icon name="signout" color={colors.primary} />
+        </Pressable>
+      </View>
+      {scheme ? (
+        <View style={{ paddingHorizontal: space.lg, paddingVertical: space.xs, backgroundColor: colors.primaryTint }}>
+          <Text style={[type.caption, { color: colors.primary }]} numberOfLines={1}>
+            {scheme.name} · {ROLE_LABELS[scheme.role]}
+          </Text>
+        </View>
+      ) : null}
+      <View style={{ flex: 1 }}>{children}</View>
+      <ScrollView
+        horizontal
+        role="navigation"
+        style={{ flexGrow: 0, borderTopWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface }}
+        contentContainerStyle={{ flexGrow: 1, justifyContent: 'space-around' }}
+      >
+        {items.map((item) => {
+          const active = isActive(pathname, item.href);
+          return (
+            <Link key={item.href} href={item.href as never} asChild>
+              <Pressable
+                testID={`nav-${item.label}`}
+                accessibilityRole="link"
+                accessibilityState={{ selected: active }}
+                style={{ minWidth: 72, minHeight: 56, alignItems: 'center', justifyContent: 'center', paddingHorizontal: space.sm }}
+              >
+                <Icon name={item.icon} color={active ? colors.primary : colors.mutedInk} />
+                <Text style={[type.caption, { color: active ? colors.primary : colors.mutedInk, fontFamily: active ? 'SourceSans3_600SemiBold' : 'SourceSans3_400Regular' }]}>{item.label}</Text>
+              </Pressable>
+            </Link>
+          );
+        })}
+      </ScrollView>
+    </View>
+  );
+}

@@ -1,0 +1,38 @@
+import Svg, { Path, Circle, Rect } from 'react-native-svg';
+import { colors } from '@/constants/theme';
+
+export type IconName = 'home' | 'chart' | 'sliders' | 'path' | 'people' | 'person' | 'log' | 'document' | 'signout' | 'upload';
+
+/** Small line icons drawn with react-native-svg (24-unit grid, 1.8 stroke). */
+export function Icon({ name, size = 22, color = colors.ink }: { name: IconName; size?: number; color?: string }) {
+  const p = { stroke: color, strokeWidth: 1.8, fill: 'none', strokeLinecap: 'round' as const, strokeLinejoin: 'round' as const };
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24" accessibilityElementsHidden importantForAccessibility="no">
+      {name === 'home' && <Path d="M3 11l9-7 9 7v9a1 1 0 0 1-1 1h-5v-6H9v6H4a1 1 0 0 1-1-1z" {...p} />}
+      {name === 'chart' && <Path d="M3 20h18M5 16l4-5 4 3 6-8" {...p} />}
+      {name === 'sliders' && <Path d="M4 6h10M18 6h2M4 12h4M12 12h8M4 18h12M20 18h0M14 4v4M8 10v4M16 16v4" {...p} />}
+      {name === 'path' && <Path d="M3 5h6c3 0 3 14 6 14h6M3 19h18" {...p} />}
+      {name === 'people' && (
+        <>
+          <Circle cx={9} cy={8} r={3.2} {...p} />
+          <Path d="M3 20c0-3.5 2.7-6 6-6s6 2.5 6 6M16 5.2a3 3 0 0 1 0 5.6M17.5 14.3c2 .7 3.5 2.8 3.5 5.7" {...p} />
+        </>
+      )}
+      {name === 'person' && (
+        <>
+          <Circle cx={12} cy={8} r={3.5} {...p} />
+          <Path d="M5 20c0-3.9 3.1-7 7-7s7 3.1 7 7" {...p} />
+        </>
+      )}
+      {name === 'log' && <Path d="M6 3h9l4 4v14H6zM9 10h7M9 14h7M9 18h4" {...p} />}
+      {name === 'document' && (
+        <>
+          <Rect x={5} y={3} width={14} height={18} rx={1.5} {...p} />
+          <Path d="M8.5 8h7M8.5 12h7M8.5 16h4" {...p} />
+        </>
+      )}
+      {name === 'signout' && <Path d="M14 4h5v16h-5M10 8l-4 4 4 4M6 12h10" {...p} />}
+      {name === 'upload' && <Path d="M12 16V4M7 9l5-5 5 5M4 20h16" {...p} />}
+    </Svg>
+  );
+}

@@ -1,0 +1,12 @@
+import type { IconName } from '@/components/Icon';
+import type { Permission } from './permissions';
+
+/** The signed-in menu. Each entry shows only to roles the permission table allows. */
+export type NavItem = { href: string; label: string; icon: IconName; permission: Permission };
+
+export const NAV_ITEMS: NavItem[] = [
+  { href: '/', label: 'Overview', icon: 'home', permission: 'scheme:read' },
+  { href: '/people', label: 'People', icon: 'people', permission: 'people:manage' },
+  { href: '/activity', label: 'Activity', icon: 'log', permission: 'audit:read' },
+  { href: '/account', label: 'Account', icon: 'person', permission: 'scheme:read' },
+];

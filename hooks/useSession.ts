@@ -1,0 +1,46 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Role } from '@/constants/permissions';
+import { api, ApiError } from './api';
+
+export type SchemeAccess = { id: string; name: string; currency: string; role: Role };
+export type Me = { user: { id: string; email: string; displayName: string }; schemes: SchemeAccess[] };
+
+export const sessionKeys = { all: ['session'] as const, me: () => [...sessionKeys.all, 'me'] as const };
+
+/** The signed-in user and their schemes, or null when signed out. */
+export function useSession() {
+  return useQuery({
+    queryKey: sessionKeys.me(),
+    queryFn: async () => {
+      try {
+        return await api<Me>('/auth/me');
+      } catch (e) {
+        if (e instanceof ApiError && e.status === 401) return null;
+        throw e;
+      }
+    },
+    staleTime: 60_000,
+  });
+}
+
+export function useSignIn() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: { email: string; password: string }) => api<Me>('/auth/sign-in', { body }),
+    onSuccess: (me) => {
+      qc.clear();
+      qc.setQueryData(sessionKeys.me(), me);
+    },
+  });
+}
+
+export function useSignOut() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<{ ok: true }>('/auth/sign-out', { method: 'POST' }),
+    onSettled: () => {
+      qc.clear();
+      qc.setQueryData(sessionKeys.me(), null);
+    },
+  });
+}

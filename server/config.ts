@@ -1,0 +1,44 @@
+import { z } from 'zod';
+import { DEFAULT_DATABASE_URL } from '../db/client';
+
+const ConfigSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(8080),
+  HOST: z.string().min(1).default('127.0.0.1'),
+  DATABASE_URL: z.string().regex(/^postgres(ql)?:\/\//, 'must be a postgres:// URL').default(DEFAULT_DATABASE_URL),
+  /** Secret that signs session cookies. Generated per start when absent (sessions then end at restart of a fresh process with a new secret) — set it in production. */
+  SESSION_SECRET: z.string().min(16, 'must be at least 16 characters').optional(),
+  /** Mark cookies Secure (set when served over TLS, directly or behind a proxy). */
+  COOKIE_SECURE: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
+  /** Minutes of inactivity before a session ends. */
+  SESSION_IDLE_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(30),
+  /** Folder with the web export served at / (single-page fallback). */
+  WEB_DIST: z.string().default('dist'),
+  /** Public base URL used in links (invitations, password resets). */
+  PUBLIC_URL: z.string().url().optional(),
+});
+
+export type Config = z.infer<typeof ConfigSchema> & { SESSION_SECRET: string };
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const parsed = ConfigSchema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`invalid configuration:\n${lines.join('\n')}`);
+  }
+  const c = parsed.data;
+  return { ...c, SESSION_SECRET: c.SESSION_SECRET ?? stableDevSecret(c.DATABASE_URL) };
+}
+
+/**
+ * Without SESSION_SECRET we derive one from the database URL so that a
+ * development restart keeps sessions valid; production must set its own.
+ */
+function stableDevSecret(dbUrl: string): string {
+  // eslint-disable-next-line @typescript-eslint/no-require-imports
+  const { createHash } = require('node:crypto') as typeof import('node:crypto');
+  return createHash('sha256').update(`keelson-dev:${dbUrl}`).digest('hex');
+}

@@ -1,0 +1,50 @@
+import http from 'node:http';
+import { createDb } from '../db/client';
+import { createApp } from './app';
+import { loadConfig } from './config';
+
+async function main() {
+  let config;
+  try {
+    config = loadConfig();
+  } catch (err) {
+    console.error(`keelson: ${(err as Error).message}`);
+    process.exit(2);
+  }
+  const { db, pool } = createDb(config.DATABASE_URL);
+  const app = createApp({ db, pool, config });
+  const server = http.createServer(app);
+
+  server.on('error', (err: NodeJS.ErrnoException) => {
+    if (err.code === 'EADDRINUSE') {
+      console.error(`keelson: port ${config.PORT} on ${config.HOST} is already in use. Stop the other program or start with PORT=<another port>.`);
+    } else {
+      console.error('keelson: server failed to start:', err.message);
+    }
+    process.exit(1);
+  });
+
+  server.listen(config.PORT, config.HOST, () => {
+    const url = `http://${config.HOST === '0.0.0.0' ? 'localhost' : config.HOST}:${config.PORT}`;
+    console.log(`keelson: serving ${url}  (API at ${url}/api, health at ${url}/api/health)`);
+  });
+
+  let stopping = false;
+  const stop = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    console.log(`keelson: ${signal} received, stopping the server...`);
+    server.close(() => {
+      pool.end().finally(() => {
+        console.log('keelson: server stopped (the database keeps running; `npm run db:stop` stops it)');
+        process.exit(0);
+      });
+    });
+    server.closeAllConnections?.();
+    setTimeout(() => process.exit(0), 5000).unref();
+  };
+  process.on('SIGINT', () => stop('SIGINT'));
+  process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+void main();

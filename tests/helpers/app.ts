@@ -1,0 +1,79 @@
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { createApp } from '../../server/app';
+import { loadConfig } from '../../server/config';
+import { createDb, type Db } from '../../db/client';
+import { seedDemo } from '../../db/seed';
+import { createTestDatabase } from './database';
+
+export type TestServer = { url: string; baseUrl: string; db: Db; close: () => Promise<void>; schemeId: string; secondSchemeId: string };
+
+/**
+ * A database of this file's own, seeded with the demo scheme, and the real
+ * app listening on an ephemeral port.
+ */
+export async function startTestServer(opts: { seed?: boolean; env?: Record<string, string> } = {}): Promise<TestServer> {
+  const { url, drop } = await createTestDatabase();
+  const { db, pool } = createDb(url, 5);
+  let ids = { schemeId: '', secondSchemeId: '' };
+  if (opts.seed !== false) ids = await seedDemo(db, { memberCount: 40 });
+  const config = loadConfig({ ...process.env, NODE_ENV: 'test', DATABASE_URL: url, SESSION_SECRET: 'test-secret-0123456789abcdef', ...opts.env });
+  const app = createApp({ db, pool, config });
+  const server = http.createServer(app);
+  await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
+  const port = (server.address() as AddressInfo).port;
+  return {
+    url,
+    baseUrl: `http://127.0.0.1:${port}`,
+    db,
+    ...ids,
+    close: async () => {
+      server.closeAllConnections();
+      await new Promise((r) => server.close(r));
+      await pool.end();
+      await drop();
+    },
+  };
+}
+
+/** A cookie-keeping HTTP client for the API, sending the same-site header on writes. */
+export class Client {
+  cookie = '';
+  constructor(public baseUrl: string) {}
+  async call(method: string, path: string, body?: unknown, headers: Record<string, string> = {}) {
+    const h: Record<string, string> = { Accept: 'application/json', ...headers };
+    if (method !== 'GET' && !('X-Keelson-Client' in headers)) h['X-Keelson-Client'] = '1';
+    if (body !== undefined && !(body instanceof FormData)) h['Content-Type'] = 'application/json';
+    if (this.cookie) h.Cookie = this.cookie;
+    const res = await fetch(`${this.baseUrl}/api${path}`, {
+      method,
+      headers: h,
+      body: body === undefined ? undefined : body instanceof FormData ? body : JSON.stringify(body),
+      redirect: 'manual',
+    });
+    const set = res.headers.getSetCookie();
+    for (const c of set) {
+      const [pair] = c.split(';');
+      if (pair.startsWith('keelson.sid=')) this.cookie = pair;
+    }
+    const text = await res.text();
+    let json: unknown = null;
+    try {
+      json = text ? JSON.parse(text) : null;
+    } catch {
+      json = text;
+    }
+    // eslint-disable-next-line @typescript-eslint/no-explicit-any
+    return { status: res.status, body: json as any, headers: res.headers };
+  }
+  get = (p: string) => this.call('GET', p);
+  post = (p: string, b?: unknown) => this.call('POST', p, b ?? {});
+  patch = (p: string, b?: unknown) => this.call('PATCH', p, b ?? {});
+  put = (p: string, b?: unknown) => this.call('PUT', p, b ?? {});
+  delete = (p: string) => this.call('DELETE', p);
+  async signIn(email: string, password = 'keelson-demo-2026') {
+    const r = await this.post('/auth/sign-in', { email, password });
+    if (r.status !== 200) throw new Error(`sign-in as ${email} failed: ${r.status} ${JSON.stringify(r.body)}`);
+    return r.body;
+  }
+}
