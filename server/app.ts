@@ -41,7 +41,7 @@ export function createApp(ctx: AppContext): Express {
   app.locals.db = ctx.db;
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
-  api.use('/health', healthRouter(ctx));
+  api.use(healthRouter(ctx));
   installSessions(api, app, ctx);
   api.use(requireSameSiteWrite);
   api.use(authRouter(ctx));

@@ -23,7 +23,7 @@ const ConfigSchema = z.object({
 
 export type Config = z.infer<typeof ConfigSchema> & { SESSION_SECRET: string };
 
-export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+export function loadConfig(env: Record<string, string | undefined> = process.env): Config {
   const parsed = ConfigSchema.safeParse(env);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);

@@ -39,7 +39,7 @@ export function authRouter(ctx: AppContext): Router {
     handler: (_req, res) => res.status(429).json({ error: 'rate_limited', message: 'Too many sign-in attempts from here. Wait a few minutes and try again.' }),
   });
 
-  defineRoute(r, M, { method: 'post', path: '/sign-in', access: 'public', matrix: false }, signInLimiter, async (req, res, next) => {
+  defineRoute(r, M, { method: 'post', path: '/sign-in', access: 'public' }, signInLimiter, async (req, res, next) => {
     const body = SignInBody.parse(req.body);
     const pp = req.app.locals.passport as Authenticator;
     pp.authenticate('local', (err: unknown, user: Express.User | false) => {
@@ -64,7 +64,7 @@ export function authRouter(ctx: AppContext): Router {
     })(req, res, next);
   });
 
-  defineRoute(r, M, { method: 'post', path: '/sign-out', access: 'signed-in', matrix: false }, async (req, res, next) => {
+  defineRoute(r, M, { method: 'post', path: '/sign-out', access: 'signed-in' }, async (req, res, next) => {
     await audit(ctx.db, req, { action: 'sign-out' });
     req.logout((e) => {
       if (e) return next(e);
@@ -76,11 +76,11 @@ export function authRouter(ctx: AppContext): Router {
     });
   });
 
-  defineRoute(r, M, { method: 'get', path: '/me', access: 'signed-in', example: () => ({}) }, async (req, res) => {
+  defineRoute(r, M, { method: 'get', path: '/me', access: 'signed-in' }, async (req, res) => {
     res.json(await meOf(ctx, req.user!.id));
   });
 
-  defineRoute(r, M, { method: 'post', path: '/password', access: 'signed-in', matrix: false }, async (req, res) => {
+  defineRoute(r, M, { method: 'post', path: '/password', access: 'signed-in' }, async (req, res) => {
     const body = ChangePasswordBody.parse(req.body);
     const [u] = await ctx.db.select().from(users).where(eq(users.id, req.user!.id));
     if (!u?.passwordHash || !(await verifyPassword(body.currentPassword, u.passwordHash))) {
@@ -94,7 +94,7 @@ export function authRouter(ctx: AppContext): Router {
     res.json({ ok: true });
   });
 
-  defineRoute(r, M, { method: 'post', path: '/forgot-password', access: 'public', matrix: false }, async (req, res) => {
+  defineRoute(r, M, { method: 'post', path: '/forgot-password', access: 'public' }, async (req, res) => {
     const body = ForgotBody.parse(req.body);
     const [u] = await ctx.db.select().from(users).where(sql`lower(${users.email}) = ${emailKey(body.email)}`);
     if (u) {
@@ -109,14 +109,14 @@ export function authRouter(ctx: AppContext): Router {
     res.json({ ok: true, message: 'If that address has an account, a reset link is on its way. Your scheme administrator can also issue one.' });
   });
 
-  defineRoute(r, M, { method: 'get', path: '/links/:token', access: 'public', matrix: false }, async (req, res) => {
+  defineRoute(r, M, { method: 'get', path: '/links/:token', access: 'public' }, async (req, res) => {
     const row = await findLiveToken(ctx.db, String(req.params.token));
     if (!row) throw new HttpError(410, 'This link has expired or has already been used. Ask for a new one.', undefined, 'link_expired');
     const existing = await ctx.db.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = ${row.t.email}`);
     res.json({ kind: row.t.kind, email: row.t.email, schemeName: row.schemeName, role: row.t.role, newAccount: existing.length === 0, expiresAt: row.t.expiresAt });
   });
 
-  defineRoute(r, M, { method: 'post', path: '/links/:token', access: 'public', matrix: false }, async (req, res) => {
+  defineRoute(r, M, { method: 'post', path: '/links/:token', access: 'public' }, async (req, res) => {
     const body = RedeemBody.parse(req.body);
     const out = await redeemToken(ctx.db, String(req.params.token), body.password, body.displayName, async (tx, user, t) => {
       await audit(tx, req, {

@@ -1,10 +1,11 @@
 import { Router } from 'express';
 import { sql } from 'drizzle-orm';
 import type { AppContext } from '../context';
+import { defineRoute } from '../routing';
 
 export function healthRouter(ctx: AppContext): Router {
   const r = Router();
-  r.get('/', async (_req, res) => {
+  defineRoute(r, '/health', { method: 'get', path: '/', access: 'public' }, async (_req, res) => {
     const started = Date.now();
     try {
       await ctx.db.execute(sql`select 1`);

@@ -19,11 +19,11 @@ export function peopleRouter(ctx: AppContext): Router {
   const r = Router({ mergeParams: true });
   const M = '/schemes/:schemeId';
 
-  defineRoute(r, M, { method: 'get', path: '', access: 'scheme:read', example: (fx) => ({ params: { schemeId: fx.schemeId } }) }, async (req, res) => {
+  defineRoute(r, M, { method: 'get', path: '', access: 'scheme:read' }, async (req, res) => {
     res.json(req.scheme);
   });
 
-  defineRoute(r, M, { method: 'get', path: '/people', access: 'people:manage', example: (fx) => ({ params: { schemeId: fx.schemeId } }) }, async (req, res) => {
+  defineRoute(r, M, { method: 'get', path: '/people', access: 'people:manage' }, async (req, res) => {
     const people = await ctx.db
       .select({ id: users.id, email: users.email, displayName: users.displayName, role: schemeRoles.role, since: schemeRoles.createdAt, active: sql<boolean>`${users.passwordHash} is not null` })
       .from(schemeRoles)
@@ -41,7 +41,7 @@ export function peopleRouter(ctx: AppContext): Router {
   defineRoute(
     r,
     M,
-    { method: 'post', path: '/invitations', access: 'people:manage', example: (fx) => ({ params: { schemeId: fx.schemeId }, body: { email: `new-${fx.nonce}@example.org`, role: 'trustee' } }) },
+    { method: 'post', path: '/invitations', access: 'people:manage' },
     async (req, res) => {
       const body = InviteBody.parse(req.body);
       const schemeId = req.scheme!.id;
@@ -67,7 +67,7 @@ export function peopleRouter(ctx: AppContext): Router {
   defineRoute(
     r,
     M,
-    { method: 'patch', path: '/people/:userId', access: 'people:manage', example: (fx) => ({ params: { schemeId: fx.schemeId, userId: fx.targetUserId }, body: { role: 'board' } }) },
+    { method: 'patch', path: '/people/:userId', access: 'people:manage' },
     async (req, res) => {
       const userId = Uuid.parse(req.params.userId);
       const body = RoleBody.parse(req.body);
@@ -86,7 +86,7 @@ export function peopleRouter(ctx: AppContext): Router {
   defineRoute(
     r,
     M,
-    { method: 'delete', path: '/people/:userId', access: 'people:manage', example: (fx) => ({ params: { schemeId: fx.schemeId, userId: fx.targetUserId } }) },
+    { method: 'delete', path: '/people/:userId', access: 'people:manage' },
     async (req, res) => {
       const userId = Uuid.parse(req.params.userId);
       if (userId === req.user!.id) throw conflict('You cannot remove yourself; ask another administrator.');
@@ -102,7 +102,7 @@ export function peopleRouter(ctx: AppContext): Router {
   defineRoute(
     r,
     M,
-    { method: 'post', path: '/people/:userId/reset-link', access: 'people:manage', example: (fx) => ({ params: { schemeId: fx.schemeId, userId: fx.targetUserId } }) },
+    { method: 'post', path: '/people/:userId/reset-link', access: 'people:manage' },
     async (req, res) => {
       const userId = Uuid.parse(req.params.userId);
       const [u] = await ctx.db
@@ -117,7 +117,7 @@ export function peopleRouter(ctx: AppContext): Router {
     },
   );
 
-  defineRoute(r, M, { method: 'get', path: '/activity', access: 'audit:read', example: (fx) => ({ params: { schemeId: fx.schemeId } }) }, async (req, res) => {
+  defineRoute(r, M, { method: 'get', path: '/activity', access: 'audit:read' }, async (req, res) => {
     const q = ActivityQuery.parse(req.query);
     const rows = await ctx.db
       .select()

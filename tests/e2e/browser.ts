@@ -9,7 +9,8 @@ export const WIDE = { width: 1280, height: 800 };
 
 /** Debian's Chromium with a fresh profile (see DEVELOPERS.md for the flags). */
 export async function launch(viewport = WIDE): Promise<{ context: BrowserContext; page: Page; close: () => Promise<void> }> {
-  if (!fs.existsSync(path.resolve(__dirname, '../../dist/index.html'))) throw new Error('dist/ is missing: run `npm run build:web` first');
+  const dist = path.resolve(__dirname, '../..', process.env.KEELSON_WEB_DIST ?? 'dist');
+  if (!fs.existsSync(path.join(dist, 'index.html'))) throw new Error(`${dist} has no web build: run \`npm run build:web\` first`);
   const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'keelson-chromium-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',

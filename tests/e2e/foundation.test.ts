@@ -4,7 +4,7 @@ import { launch, PHONE, screenshot, WIDE } from './browser';
 
 let s: TestServer;
 beforeAll(async () => {
-  s = await startTestServer({ env: { WEB_DIST: 'dist' } });
+  s = await startTestServer({ env: { WEB_DIST: process.env.KEELSON_WEB_DIST ?? 'dist' } });
 });
 afterAll(async () => s?.close());
 
