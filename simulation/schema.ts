@@ -39,7 +39,7 @@ export const WeightsSchema = z
     }
     const sum = values.reduce((a, b) => a + b, 0);
     if (Math.abs(sum - 1) > WEIGHT_SUM_TOLERANCE) {
-      ctx.addIssue({ code: 'custom', message: `weights sum to ${sum}; they must sum to 1 (±1e-9)` });
+      ctx.addIssue({ code: 'custom', message: `weights sum to ${Number(sum.toPrecision(12))}; they must sum to 1 (±1e-9)` });
     }
   });
 
