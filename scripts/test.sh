@@ -16,7 +16,7 @@ check() { # name, command...
   if "$@"; then passed=$((passed+1)); log "$name passed"; else failed=$((failed+1)); log "$name FAILED"; fi
 }
 check typecheck npx tsc --noEmit -p .
-check lint npx eslint app components hooks constants server db simulation tests scripts
+check lint npx eslint .
 ensure_web_build || { failed=$((failed+1)); }
 npx vitest run --reporter=default --reporter=json --outputFile.json=test-artifacts/vitest.json "$@"
 vitest_rc=$?
