@@ -16,6 +16,10 @@ export interface ThreadedRunOptions {
   onProgress?: (fractionDone: number) => void;
   /** Per-batch cap on per-age storage, as in runScenario. */
   bandBudgetBytes?: number;
+  /** Reuse these workers (kept warm between runs) instead of starting and stopping new ones. */
+  pool?: ComputePool;
+  /** Filled with wall-clock milliseconds spent waiting for the workers and summarising. */
+  timing?: { simulateMs: number; summariseMs: number };
 }
 
 // Workers are TypeScript: a one-line CommonJS bootstrap registers tsx's require hook and loads
@@ -84,7 +88,30 @@ class WorkerHandle {
 }
 
 /**
- * Validate and run a scenario on `threads` worker threads. Paths are split into contiguous
+ * A set of simulation workers that can serve many runs (the server keeps one; worker start-up
+ * costs a few hundred milliseconds). Call close() when done.
+ */
+export class ComputePool {
+  readonly size: number;
+  private readonly workers: WorkerHandle[];
+
+  constructor(threads: number = availableParallelism()) {
+    this.size = Math.max(1, Math.floor(threads));
+    this.workers = Array.from({ length: this.size }, () => new WorkerHandle());
+  }
+
+  /** @internal */
+  worker(k: number): WorkerHandle {
+    return this.workers[k];
+  }
+
+  async close(): Promise<void> {
+    await Promise.all(this.workers.map((w) => w.terminate()));
+  }
+}
+
+/**
+ * Validate and run a scenario on `threads` worker threads (or on `pool`). Paths are split into contiguous
  * ranges, one per thread; each worker runs the pure path loop and transfers its typed arrays
  * back; the main thread puts the chunks in path order and summarises. Because every path
  * depends only on (seed, path index, scenario), the result is byte-identical to runScenario
@@ -97,9 +124,13 @@ export async function runScenarioThreaded(input: unknown, options: ThreadedRunOp
   const scenario = parseScenario(input);
   const prepared = prepareScenario(scenario);
   const batches = planBatches(prepared, options.bandBudgetBytes ?? DEFAULT_BAND_BUDGET_BYTES);
-  const threads = Math.max(1, Math.floor(options.threads ?? availableParallelism()));
+  const threads = options.pool ? options.pool.size : Math.max(1, Math.floor(options.threads ?? availableParallelism()));
   const ranges = splitPaths(scenario.paths, threads, scenario.antithetic);
-  const workers = ranges.map(() => new WorkerHandle());
+  const pool = options.pool ?? new ComputePool(ranges.length);
+  const workers = ranges.map((_, k) => pool.worker(k));
+  const timing = options.timing ?? { simulateMs: 0, summariseMs: 0 };
+  timing.simulateMs = 0;
+  timing.summariseMs = 0;
   const results: PairResult[] = new Array(prepared.pairs.length);
   let jobId = 0;
   try {
@@ -112,6 +143,7 @@ export async function runScenarioThreaded(input: unknown, options: ThreadedRunOp
         ranges.forEach(([s, e], k) => (sum += done[k] * (e - s)));
         options.onProgress((b + sum / scenario.paths) / batches.length);
       };
+      const t0 = performance.now();
       const chunkLists = await Promise.all(
         ranges.map(([start, end], k) =>
           workers[k].run(
@@ -123,6 +155,8 @@ export async function runScenarioThreaded(input: unknown, options: ThreadedRunOp
           ),
         ),
       );
+      const t1 = performance.now();
+      timing.simulateMs += t1 - t0;
       const chunks = chunkLists.flat();
       for (const pairIndex of batch) {
         results[pairIndex] = summarisePair(
@@ -131,9 +165,10 @@ export async function runScenarioThreaded(input: unknown, options: ThreadedRunOp
           chunks.filter((c) => c.pairIndex === pairIndex),
         );
       }
+      timing.summariseMs += performance.now() - t1;
     }
   } finally {
-    await Promise.all(workers.map((w) => w.terminate()));
+    if (!options.pool) await pool.close();
   }
   return assembleResult(prepared, results);
 }
