@@ -3,7 +3,7 @@ import path from 'node:path';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import type { AppContext } from './context';
-import { errorHandler, notFound, requestId } from './errors';
+import { errorHandler, notFound, rejectNulCharacters, requestId } from './errors';
 import { healthRouter } from './routes/health';
 import { authRouter } from './routes/auth';
 import { peopleRouter } from './routes/people';
@@ -41,6 +41,7 @@ export function createApp(ctx: AppContext): Express {
   app.locals.db = ctx.db;
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
+  api.use(rejectNulCharacters);
   api.use(healthRouter(ctx));
   installSessions(api, app, ctx);
   api.use(requireSameSiteWrite);

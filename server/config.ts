@@ -17,6 +17,8 @@ const ConfigSchema = z.object({
   SESSION_IDLE_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(30),
   /** Folder with the web export served at / (single-page fallback). */
   WEB_DIST: z.string().default('dist'),
+  /** Sign-in attempts allowed per client address per 15 minutes (on top of the per-address lock-out). */
+  SIGN_IN_RATE_LIMIT: z.coerce.number().int().min(1).default(50),
   /** Public base URL used in links (invitations, password resets). */
   PUBLIC_URL: z.string().url().optional(),
 });

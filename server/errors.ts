@@ -59,3 +59,19 @@ export function errorHandler(opts: { exposeStack: boolean; log?: (msg: string, e
     });
   };
 }
+
+/** Finds strings containing a NUL character (PostgreSQL cannot store them in text) and names their paths. */
+function nulPaths(v: unknown, path: string[] = [], out: string[] = []): string[] {
+  if (typeof v === 'string') {
+    if (v.includes('\u0000')) out.push(path.join('.') || '(body)');
+  } else if (Array.isArray(v)) v.forEach((x, i) => nulPaths(x, [...path, String(i)], out));
+  else if (v && typeof v === 'object') for (const [k, x] of Object.entries(v)) nulPaths(x, [...path, k], out);
+  return out;
+}
+
+/** Refuses JSON bodies with NUL characters up front, naming each field. */
+export const rejectNulCharacters: RequestHandler = (req, _res, next) => {
+  const paths = req.body && typeof req.body === 'object' ? nulPaths(req.body) : [];
+  if (paths.length) return next(badRequest('Some fields contain a NUL character.', paths.map((p) => ({ path: p, message: 'must not contain a NUL character' }))));
+  next();
+};

@@ -33,7 +33,7 @@ export function authRouter(ctx: AppContext): Router {
   const M = '/auth';
   const signInLimiter = rateLimit({
     windowMs: 15 * 60_000,
-    limit: Number(process.env.SIGN_IN_RATE_LIMIT ?? 50),
+    limit: ctx.config.SIGN_IN_RATE_LIMIT,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: (_req, res) => res.status(429).json({ error: 'rate_limited', message: 'Too many sign-in attempts from here. Wait a few minutes and try again.' }),

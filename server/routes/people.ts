@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { and, desc, eq, gt, isNull, lt, sql } from 'drizzle-orm';
+import { and, desc, eq, gt, isNull, lt, or, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
@@ -122,7 +122,19 @@ export function peopleRouter(ctx: AppContext): Router {
     const rows = await ctx.db
       .select()
       .from(auditEvents)
-      .where(and(eq(auditEvents.schemeId, req.scheme!.id), q.before ? lt(auditEvents.id, q.before) : undefined))
+      // This scheme's events, plus sign-ins (which belong to no scheme) of the people on it.
+      .where(
+        and(
+          or(
+            eq(auditEvents.schemeId, req.scheme!.id),
+            and(
+              isNull(auditEvents.schemeId),
+              sql`lower(${auditEvents.actorEmail}) in (select lower(u.email) from users u join scheme_roles sr on sr.user_id = u.id where sr.scheme_id = ${req.scheme!.id})`,
+            ),
+          ),
+          q.before ? lt(auditEvents.id, q.before) : undefined,
+        ),
+      )
       .orderBy(desc(auditEvents.id))
       .limit(q.limit);
     res.json({ events: rows, next: rows.length === q.limit ? rows[rows.length - 1].id : null });

@@ -6,7 +6,16 @@ import { createDb, type Db } from '../../db/client';
 import { seedDemo } from '../../db/seed';
 import { createTestDatabase } from './database';
 
-export type TestServer = { url: string; baseUrl: string; db: Db; close: () => Promise<void>; schemeId: string; secondSchemeId: string };
+export type TestServer = {
+  url: string;
+  baseUrl: string;
+  db: Db;
+  schemeId: string;
+  secondSchemeId: string;
+  /** Stops the HTTP server and its pool, then starts a new app on the same database and port (a server restart). */
+  restart: () => Promise<void>;
+  close: () => Promise<void>;
+};
 
 /**
  * A database of this file's own, seeded with the demo scheme, and the real
@@ -18,18 +27,32 @@ export async function startTestServer(opts: { seed?: boolean; env?: Record<strin
   let ids = { schemeId: '', secondSchemeId: '' };
   if (opts.seed !== false) ids = await seedDemo(db, { memberCount: 40 });
   const config = loadConfig({ ...process.env, NODE_ENV: 'test', DATABASE_URL: url, SESSION_SECRET: 'test-secret-0123456789abcdef', ...opts.env });
-  const app = createApp({ db, pool, config });
-  const server = http.createServer(app);
-  await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
+  // The app gets a pool of its own, so a restart can end it as a real process exit would.
+  let appDb = createDb(url, 5);
+  const listen = async (port: number) => {
+    const server = http.createServer(createApp({ db: appDb.db, pool: appDb.pool, config }));
+    await new Promise<void>((r) => server.listen(port, '127.0.0.1', r));
+    return server;
+  };
+  let server = await listen(0);
   const port = (server.address() as AddressInfo).port;
+  const stopServer = async () => {
+    server.closeAllConnections();
+    await new Promise((r) => server.close(r));
+    await appDb.pool.end();
+  };
   return {
     url,
     baseUrl: `http://127.0.0.1:${port}`,
     db,
     ...ids,
+    restart: async () => {
+      await stopServer();
+      appDb = createDb(url, 5);
+      server = await listen(port);
+    },
     close: async () => {
-      server.closeAllConnections();
-      await new Promise((r) => server.close(r));
+      await stopServer();
       await pool.end();
       await drop();
     },
@@ -45,12 +68,15 @@ export class Client {
     if (method !== 'GET' && !('X-Keelson-Client' in headers)) h['X-Keelson-Client'] = '1';
     if (body !== undefined && !(body instanceof FormData)) h['Content-Type'] = 'application/json';
     if (this.cookie) h.Cookie = this.cookie;
-    const res = await fetch(`${this.baseUrl}/api${path}`, {
-      method,
-      headers: h,
-      body: body === undefined ? undefined : body instanceof FormData ? body : JSON.stringify(body),
-      redirect: 'manual',
-    });
+    const send = () =>
+      fetch(`${this.baseUrl}/api${path}`, {
+        method,
+        headers: h,
+        body: body === undefined ? undefined : body instanceof FormData ? body : JSON.stringify(body),
+        redirect: 'manual',
+      });
+    // A kept-alive socket to a server that has since restarted fails once; a new connection then succeeds.
+    const res = await send().catch(send);
     const set = res.headers.getSetCookie();
     for (const c of set) {
       const [pair] = c.split(';');
