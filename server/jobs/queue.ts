@@ -1,0 +1,133 @@
+import PgBoss from 'pg-boss';
+import { sql } from 'drizzle-orm';
+import type { Pool } from 'pg';
+import type { DbOrTx } from '../../db/client';
+
+/**
+ * The projection queue: pg-boss 10 in its own schema (`pgboss`) of Keelson's database.
+ * A job carries only the run id; the run row holds every input. The queue's retry and
+ * expiry settings are what bring a run back after a worker dies mid-run: an active job
+ * whose worker stopped is expired by the next maintenance pass and offered again.
+ */
+export const RUN_QUEUE = 'projection-run';
+export const BOSS_SCHEMA = 'pgboss';
+
+export type QueueSettings = {
+  /** A job active this long is taken to be lost and is retried. Longer than the longest run. */
+  expireInSeconds: number;
+  /** Attempts after the first. */
+  retryLimit: number;
+  retryDelaySeconds: number;
+  /** How often a worker looks for expired jobs. */
+  maintenanceIntervalSeconds: number;
+  /** How often an idle worker polls for new jobs. */
+  pollingIntervalSeconds: number;
+};
+
+function num(env: Record<string, string | undefined>, name: string, fallback: number, min: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const v = Number(raw);
+  if (!Number.isFinite(v) || v < min) throw new Error(`${name} must be a number of at least ${min} (got "${raw}")`);
+  return v;
+}
+
+/** Settings from the environment, with production defaults (a run may take minutes; expiry allows half an hour). */
+export function queueSettings(env: Record<string, string | undefined> = process.env): QueueSettings {
+  return {
+    expireInSeconds: num(env, 'KEELSON_RUN_EXPIRE_SECONDS', 30 * 60, 1),
+    retryLimit: num(env, 'KEELSON_RUN_RETRY_LIMIT', 3, 0),
+    retryDelaySeconds: num(env, 'KEELSON_RUN_RETRY_DELAY_SECONDS', 2, 0),
+    maintenanceIntervalSeconds: num(env, 'KEELSON_QUEUE_MAINTENANCE_SECONDS', 30, 1),
+    pollingIntervalSeconds: num(env, 'KEELSON_QUEUE_POLL_SECONDS', 1, 0.5),
+  };
+}
+
+/** pg-boss speaks to PostgreSQL through this executor, so it shares Keelson's pool. */
+export function poolExecutor(pool: Pool): PgBoss.Db {
+  return { executeSql: async (text, values) => ({ rows: (await pool.query(text, values)).rows }) };
+}
+
+/**
+ * Runs pg-boss's parameterised statements inside a Drizzle transaction, so that queueing a
+ * run commits or rolls back with the run row and its audit event. `$n` placeholders become
+ * bound parameters (a placeholder used twice is bound twice, which is equivalent).
+ */
+export function transactionExecutor(tx: DbOrTx): PgBoss.Db {
+  return {
+    executeSql: async (text, values) => {
+      const parts = text.split(/\$(\d+)/);
+      const chunks = parts.map((part, i) => (i % 2 === 0 ? sql.raw(part) : sql.param(values[Number(part) - 1])));
+      const res = await tx.execute(sql.join(chunks, sql.raw('')));
+      return { rows: res.rows as unknown[] as Record<string, unknown>[] };
+    },
+  };
+}
+
+export function createBoss(pool: Pool, role: 'producer' | 'worker', settings = queueSettings()): PgBoss {
+  const boss = new PgBoss({
+    db: poolExecutor(pool),
+    schema: BOSS_SCHEMA,
+    // Producers only insert jobs; workers also expire lost jobs and archive old ones.
+    supervise: role === 'worker',
+    schedule: false,
+    migrate: true,
+    maintenanceIntervalSeconds: settings.maintenanceIntervalSeconds,
+  });
+  boss.on('error', (err) => console.error(`keelson: run queue (${role}) error:`, err.message));
+  return boss;
+}
+
+/** Creates the queue if missing and keeps its retry and expiry settings current. */
+export async function ensureRunQueue(boss: PgBoss, settings = queueSettings()): Promise<void> {
+  const options = {
+    name: RUN_QUEUE,
+    policy: 'standard' as const,
+    retryLimit: settings.retryLimit,
+    retryDelay: settings.retryDelaySeconds,
+    retryBackoff: false,
+    expireInSeconds: settings.expireInSeconds,
+  };
+  if (await boss.getQueue(RUN_QUEUE)) await boss.updateQueue(RUN_QUEUE, options);
+  else {
+    try {
+      await boss.createQueue(RUN_QUEUE, options);
+    } catch (e) {
+      // Another process created it at the same moment.
+      if (!(await boss.getQueue(RUN_QUEUE))) throw e;
+    }
+  }
+}
+
+const producers = new WeakMap<Pool, Promise<PgBoss>>();
+
+/** One started producer per pool (created on first use: the app needs no start-up step). */
+export function producerFor(pool: Pool): Promise<PgBoss> {
+  let p = producers.get(pool);
+  if (!p) {
+    p = (async () => {
+      const boss = createBoss(pool, 'producer');
+      await boss.start();
+      await ensureRunQueue(boss);
+      return boss;
+    })();
+    p.catch(() => producers.delete(pool));
+    producers.set(pool, p);
+  }
+  return p;
+}
+
+export type RunJob = { runId: string };
+
+/** Queues a run inside the caller's transaction. The job id is the run id, so a run is queued at most once. */
+export async function enqueueRun(pool: Pool, tx: DbOrTx, runId: string): Promise<void> {
+  const boss = await producerFor(pool);
+  const settings = queueSettings();
+  await boss.send(RUN_QUEUE, { runId } satisfies RunJob, {
+    id: runId,
+    retryLimit: settings.retryLimit,
+    retryDelay: settings.retryDelaySeconds,
+    expireInSeconds: settings.expireInSeconds,
+    db: transactionExecutor(tx),
+  });
+}
