@@ -7,6 +7,7 @@ import { errorHandler, notFound, rejectNulCharacters, requestId } from './errors
 import { healthRouter } from './routes/health';
 import { authRouter } from './routes/auth';
 import { peopleRouter } from './routes/people';
+import { schemeDataRouters } from './routes/schemeData';
 import { runsRouter } from './routes/runs';
 import { installSessions, requireSameSiteWrite } from './auth/session';
 
@@ -48,6 +49,7 @@ export function createApp(ctx: AppContext): Express {
   api.use(requireSameSiteWrite);
   api.use(authRouter(ctx));
   api.use(peopleRouter(ctx));
+  api.use(schemeDataRouters(ctx));
   api.use(runsRouter(ctx));
   api.use((_req, _res, next) => next(notFound('No such API route.')));
   app.use('/api', api);
