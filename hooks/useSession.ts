@@ -28,7 +28,8 @@ export function useSignIn() {
   return useMutation({
     mutationFn: (body: { email: string; password: string }) => api<Me>('/auth/sign-in', { body }),
     onSuccess: (me) => {
-      qc.clear();
+      // Drop another user's cached data, but keep the session query its observers watch.
+      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.all[0] });
       qc.setQueryData(sessionKeys.me(), me);
     },
   });
@@ -39,7 +40,7 @@ export function useSignOut() {
   return useMutation({
     mutationFn: () => api<{ ok: true }>('/auth/sign-out', { method: 'POST' }),
     onSettled: () => {
-      qc.clear();
+      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.all[0] });
       qc.setQueryData(sessionKeys.me(), null);
     },
   });

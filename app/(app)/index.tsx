@@ -1,4 +1,7 @@
-import { Text, View } from 'react-native';
+import { Pressable, Text } from 'react-native';
+import { Link } from 'expo-router';
+import { Icon } from '@/components/Icon';
+import { colors } from '@/constants/theme';
 import { Card, Screen, styles } from '@/components/ui';
 import { SchemePicker } from '@/components/SchemePicker';
 import { ROLE_LABELS, can } from '@/constants/permissions';
@@ -23,9 +26,12 @@ export default function Overview() {
     <Screen title={scheme.name} subtitle={`Signed in as ${me?.user.displayName} · ${ROLE_LABELS[scheme.role]}`}>
       <Card title="Your work here">
         {places.map((p) => (
-          <View key={p.href} style={{ paddingVertical: 4 }}>
-            <Text style={styles.body}>• {p.label}</Text>
-          </View>
+          <Link key={p.href} href={p.href as never} asChild>
+            <Pressable accessibilityRole="link" style={{ flexDirection: 'row', alignItems: 'center', gap: 12, minHeight: 44 }}>
+              <Icon name={p.icon} color={colors.primary} />
+              <Text style={[styles.body, { color: colors.primary }]}>{p.label}</Text>
+            </Pressable>
+          </Link>
         ))}
       </Card>
       {schemes.length > 1 ? (
