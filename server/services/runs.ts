@@ -4,7 +4,7 @@ import { and, desc, eq } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { assumptionSets, defaultOptions, funds, illustrativeMembers, projectionRuns } from '../../db/schema';
 import { conflict, notFound } from '../errors';
-import { enqueueRun } from '../jobs/queue';
+import { enqueueRun, producerFor } from '../jobs/queue';
 import { audit } from './audit';
 import { buildScenario, type ScenarioChoice, type ScenarioSnapshot } from './scenario';
 
@@ -20,6 +20,8 @@ export const MAX_SEED = 2 ** 31 - 1;
 export async function requestRun(ctx: AppContext, req: Request, body: RunRequest) {
   const schemeId = req.scheme!.id;
   const seed = body.seed ?? randomInt(0, MAX_SEED);
+  // Start the queue client before taking a connection for the transaction (it needs its own).
+  await producerFor(ctx.pool);
   return ctx.db.transaction(async (tx) => {
     const snapshot = await buildScenario(tx, schemeId, { ...body, seed });
     return insertAndQueue(ctx, tx, req, snapshot, { seed, paths: body.paths, riskAversion: body.riskAversion, rerunOf: null });
@@ -28,6 +30,7 @@ export async function requestRun(ctx: AppContext, req: Request, body: RunRequest
 
 /** Runs a finished run again from its stored snapshot; the worker compares the two results. */
 export async function rerun(ctx: AppContext, req: Request, runId: string) {
+  await producerFor(ctx.pool);
   return ctx.db.transaction(async (tx) => {
     const [orig] = await tx.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, req.scheme!.id)));
     if (!orig) throw notFound('No such run in this scheme.');
