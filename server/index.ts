@@ -2,6 +2,7 @@ import http from 'node:http';
 import { createDb } from '../db/client';
 import { createApp } from './app';
 import { loadConfig } from './config';
+import { startRunWorker, type RunWorker } from './jobs';
 
 async function main() {
   let config;
@@ -29,19 +30,33 @@ async function main() {
     console.log(`keelson: serving ${url}  (API at ${url}/api, health at ${url}/api/health)`);
   });
 
+  // A projection worker in this process unless KEELSON_INLINE_WORKER=false (then run `npm run worker`).
+  let worker: RunWorker | null = null;
+  if (process.env.KEELSON_INLINE_WORKER !== 'false') {
+    startRunWorker({ db, pool })
+      .then((w) => {
+        worker = w;
+        console.log('keelson: projection worker running in this process (KEELSON_INLINE_WORKER=false to turn it off)');
+      })
+      .catch((err) => console.error('keelson: projection worker failed to start:', err.message));
+  }
+
   let stopping = false;
   const stop = (signal: string) => {
     if (stopping) return;
     stopping = true;
     console.log(`keelson: ${signal} received, stopping the server...`);
     server.close(() => {
-      pool.end().finally(() => {
-        console.log('keelson: server stopped (the database keeps running; `npm run db:stop` stops it)');
-        process.exit(0);
-      });
+      (worker ? worker.stop() : Promise.resolve())
+        .catch(() => undefined)
+        .then(() => pool.end())
+        .finally(() => {
+          console.log('keelson: server stopped (the database keeps running; `npm run db:stop` stops it)');
+          process.exit(0);
+        });
     });
     server.closeAllConnections?.();
-    setTimeout(() => process.exit(0), 5000).unref();
+    setTimeout(() => process.exit(0), 8000).unref();
   };
   process.on('SIGINT', () => stop('SIGINT'));
   process.on('SIGTERM', () => stop('SIGTERM'));
