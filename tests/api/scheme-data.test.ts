@@ -45,7 +45,7 @@ function validSet(ids = fundIds) {
     annuityRealRate: 0.012,
     annuityYears: 25,
     funds: ids.map((fundId, i) => ({ fundId, expectedReturn: 0.03 + 0.01 * i, volatility: 0.02 + 0.03 * i, annualCharge: 0.002 })),
-    correlations: ids.map((_, i) => ids.map((__, j) => (i === j ? 1 : 0.2))),
+    correlations: ids.map((_, i) => ids.map((__, j): number => (i === j ? 1 : 0.2))),
   };
 }
 
