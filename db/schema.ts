@@ -22,6 +22,7 @@ import {
   uuid,
   varchar,
   json,
+  customType,
 } from 'drizzle-orm/pg-core';
 
 export const roleEnum = pgEnum('role', ['administrator', 'trustee', 'actuary', 'communications', 'board']);
@@ -292,3 +293,104 @@ export const fundAssumptionsRelations = relations(fundAssumptions, ({ one }) => 
 export type Role = (typeof roleEnum.enumValues)[number];
 export type User = typeof users.$inferSelect;
 export type Scheme = typeof schemes.$inferSelect;
+
+/** Binary column (PDF files, attachments): Buffer in TypeScript, bytea in PostgreSQL. */
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
+
+/** A board scenario report: a PDF made from one finished run, kept as generated (never regenerated). */
+export const reports = pgTable(
+  'reports',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    schemeId: uuid('scheme_id')
+      .notNull()
+      .references(() => schemes.id, { onDelete: 'cascade' }),
+    runId: uuid('run_id')
+      .notNull()
+      .references(() => projectionRuns.id, { onDelete: 'cascade' }),
+    title: varchar('title', { length: 200 }).notNull(),
+    /** Risk aversion λ at which the report states certainty equivalents. */
+    riskAversion: doublePrecision('risk_aversion').notNull(),
+    draft: boolean('draft').notNull(),
+    /** The figures and sentences printed in the PDF, for reading in the app without the file. */
+    content: jsonb('content').notNull(),
+    pdf: bytea('pdf').notNull(),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('reports_scheme').on(t.schemeId, t.createdAt)],
+);
+
+export const mailStatusEnum = pgEnum('mail_status', ['queued', 'retrying', 'sent', 'failed']);
+
+/** Every e-mail Keelson sends, with its delivery status; a job delivers it and retries on failure. */
+export const outboxMessages = pgTable(
+  'outbox_messages',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    /** Null for mail that belongs to no scheme (password resets). */
+    schemeId: uuid('scheme_id').references(() => schemes.id, { onDelete: 'cascade' }),
+    kind: varchar('kind', { length: 40 }).notNull(),
+    recipients: jsonb('recipients').$type<string[]>().notNull(),
+    subject: varchar('subject', { length: 300 }).notNull(),
+    body: text('body').notNull(),
+    status: mailStatusEnum('status').notNull().default('queued'),
+    attempts: integer('attempts').notNull().default(0),
+    lastError: text('last_error'),
+    /** The receiving server's message id once sent. */
+    providerId: varchar('provider_id', { length: 300 }),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    lastAttemptAt: timestamp('last_attempt_at', { withTimezone: true }),
+    sentAt: timestamp('sent_at', { withTimezone: true }),
+  },
+  (t) => [index('outbox_scheme_created').on(t.schemeId, t.createdAt)],
+);
+
+export const outboxAttachments = pgTable('outbox_attachments', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  messageId: uuid('message_id')
+    .notNull()
+    .references(() => outboxMessages.id, { onDelete: 'cascade' }),
+  filename: varchar('filename', { length: 200 }).notNull(),
+  contentType: varchar('content_type', { length: 100 }).notNull(),
+  content: bytea('content').notNull(),
+});
+
+/** What the local stand-in mail server received (development and tests), raw as delivered. */
+export const receivedMail = pgTable('received_mail', {
+  id: bigserial('id', { mode: 'number' }).primaryKey(),
+  receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+  envelopeFrom: varchar('envelope_from', { length: 254 }),
+  envelopeTo: jsonb('envelope_to').$type<string[]>().notNull(),
+  raw: bytea('raw').notNull(),
+});
+
+export const exportStatusEnum = pgEnum('export_status', ['queued', 'running', 'done', 'failed']);
+
+/** A background export of member statements (a whole membership, or every illustrative member). */
+export const statementExports = pgTable(
+  'statement_exports',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    schemeId: uuid('scheme_id')
+      .notNull()
+      .references(() => schemes.id, { onDelete: 'cascade' }),
+    runId: uuid('run_id')
+      .notNull()
+      .references(() => projectionRuns.id, { onDelete: 'cascade' }),
+    optionId: varchar('option_id', { length: 64 }).notNull(),
+    scope: varchar('scope', { length: 20 }).$type<'illustrative' | 'membership'>().notNull(),
+    format: varchar('format', { length: 8 }).$type<'pdf' | 'csv'>().notNull(),
+    status: exportStatusEnum('status').notNull().default('queued'),
+    progress: doublePrecision('progress').notNull().default(0),
+    memberCount: integer('member_count').notNull().default(0),
+    error: text('error'),
+    filename: varchar('filename', { length: 200 }),
+    file: bytea('file'),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    finishedAt: timestamp('finished_at', { withTimezone: true }),
+  },
+  (t) => [index('statement_exports_scheme').on(t.schemeId, t.createdAt)],
+);
