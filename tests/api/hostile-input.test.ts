@@ -1,6 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ROUTES, type RouteSpec } from '../../server/routing';
+import { ROUTES } from '../../server/routing';
 import { can, ROLES, type Role } from '../../constants/permissions';
 import { schemeRoles, users } from '../../db/schema';
 import { DEMO_USERS } from '../../db/seed';

@@ -89,7 +89,6 @@ export class Client {
     } catch {
       json = text;
     }
-    // eslint-disable-next-line @typescript-eslint/no-explicit-any
     return { status: res.status, body: json as any, headers: res.headers };
   }
   get = (p: string) => this.call('GET', p);
