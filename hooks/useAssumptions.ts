@@ -1,0 +1,149 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api } from './api';
+import { useCurrentScheme } from './useCurrentScheme';
+import { fileForm, type PickedFile } from './upload';
+
+export type FundAssumption = { fundId: string; expectedReturn: number; volatility: number; annualCharge: number };
+export type AssumptionContent = {
+  setAt: string;
+  rationale: string;
+  inflation: number;
+  salaryGrowth: number;
+  annuityRealRate: number;
+  annuityYears: number;
+  funds: FundAssumption[];
+  correlations: number[][];
+};
+export type AssumptionSetSummary = {
+  id: string;
+  version: number;
+  status: 'draft' | 'approved';
+  setAt: string;
+  basedOnId: string | null;
+  createdBy: string | null;
+  createdAt: string;
+  updatedAt: string;
+  approvedBy: string | null;
+  approvedAt: string | null;
+};
+export type AssumptionSet = AssumptionSetSummary &
+  Omit<AssumptionContent, 'funds'> & { funds: (FundAssumption & { name: string; assetClass: string })[]; basedOnVersion: number | null };
+
+export type SetComparison = {
+  a: AssumptionSetSummary;
+  b: AssumptionSetSummary;
+  fields: { field: string; a: string | number; b: string | number; changed: boolean }[];
+  funds: { fundId: string; name: string; a: FundAssumption | null; b: FundAssumption | null; changed: string[] }[];
+  correlations: { fundA: string; fundB: string; nameA: string; nameB: string; a: number | null; b: number | null }[];
+};
+
+export type HistorySuggestion = {
+  from: string;
+  to: string;
+  months: number;
+  thin: boolean;
+  method: string;
+  fileName: string;
+  dates: string[];
+  funds: { fundId: string; name: string; monthlyMean: number; monthlySd: number; monthlyVariance: number; annualReturn: number; annualVolatility: number; growth: number[] }[];
+  correlations: number[][];
+  undefinedCorrelations: string[];
+  current: { id: string; version: number; funds: AssumptionSet['funds']; correlations: number[][] } | null;
+};
+
+export const assumptionKeys = {
+  all: (schemeId: string) => ['assumptions', schemeId] as const,
+  list: (schemeId: string) => [...assumptionKeys.all(schemeId), 'list'] as const,
+  detail: (schemeId: string, id: string) => [...assumptionKeys.all(schemeId), 'detail', id] as const,
+  compare: (schemeId: string, a: string, b: string) => [...assumptionKeys.all(schemeId), 'compare', a, b] as const,
+};
+
+function useSchemeId() {
+  return useCurrentScheme().scheme?.id ?? '';
+}
+
+export function useAssumptionSets() {
+  const schemeId = useSchemeId();
+  return useQuery({
+    queryKey: assumptionKeys.list(schemeId),
+    queryFn: () => api<{ sets: AssumptionSetSummary[] }>(`/schemes/${schemeId}/assumption-sets`).then((r) => r.sets),
+    enabled: !!schemeId,
+  });
+}
+
+export function useAssumptionSet(id: string | undefined) {
+  const schemeId = useSchemeId();
+  return useQuery({
+    queryKey: assumptionKeys.detail(schemeId, id ?? ''),
+    queryFn: () => api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets/${id}`),
+    enabled: !!schemeId && !!id,
+  });
+}
+
+export function useCompareSets(a: string | undefined, b: string | undefined) {
+  const schemeId = useSchemeId();
+  return useQuery({
+    queryKey: assumptionKeys.compare(schemeId, a ?? '', b ?? ''),
+    queryFn: () => api<SetComparison>(`/schemes/${schemeId}/assumption-sets/${a}/compare/${b}`),
+    enabled: !!schemeId && !!a && !!b && a !== b,
+  });
+}
+
+function useInvalidate() {
+  const schemeId = useSchemeId();
+  const qc = useQueryClient();
+  return () => qc.invalidateQueries({ queryKey: assumptionKeys.all(schemeId) });
+}
+
+/** Saves a draft's content (PUT), or creates a new draft when no id is given. */
+export function useSaveDraft() {
+  const schemeId = useSchemeId();
+  const invalidate = useInvalidate();
+  return useMutation({
+    mutationFn: ({ id, content }: { id?: string; content: AssumptionContent }) =>
+      id ? api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets/${id}`, { method: 'PUT', body: content }) : api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets`, { body: content }),
+    onSuccess: invalidate,
+  });
+}
+
+/** Starts a new draft copied from an existing version. */
+export function useNewDraft() {
+  const schemeId = useSchemeId();
+  const invalidate = useInvalidate();
+  return useMutation({
+    mutationFn: (fromId: string) => api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets/${fromId}/drafts`, { method: 'POST' }),
+    onSuccess: invalidate,
+  });
+}
+
+export function useDiscardDraft() {
+  const schemeId = useSchemeId();
+  const invalidate = useInvalidate();
+  return useMutation({ mutationFn: (id: string) => api<{ ok: true }>(`/schemes/${schemeId}/assumption-sets/${id}`, { method: 'DELETE' }), onSuccess: invalidate });
+}
+
+export function useApproveSet() {
+  const schemeId = useSchemeId();
+  const invalidate = useInvalidate();
+  return useMutation({ mutationFn: (id: string) => api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets/${id}/approve`, { method: 'POST' }), onSuccess: invalidate });
+}
+
+/** Uploads a price history and returns suggestions (nothing is stored). */
+export function useHistorySuggestion() {
+  const schemeId = useSchemeId();
+  return useMutation({ mutationFn: (file: PickedFile) => api<HistorySuggestion>(`/schemes/${schemeId}/assumption-sets/history`, { form: fileForm(file) }) });
+}
+
+/** The editable content of a set, as the API takes it. */
+export function contentOf(set: AssumptionSet): AssumptionContent {
+  return {
+    setAt: set.setAt,
+    rationale: set.rationale,
+    inflation: set.inflation,
+    salaryGrowth: set.salaryGrowth,
+    annuityRealRate: set.annuityRealRate,
+    annuityYears: set.annuityYears,
+    funds: set.funds.map(({ fundId, expectedReturn, volatility, annualCharge }) => ({ fundId, expectedReturn, volatility, annualCharge })),
+    correlations: set.correlations.map((r) => r.slice()),
+  };
+}
