@@ -21,10 +21,10 @@ describe('signed-in menus follow the permission table', () => {
       await signIn(b.page, s.baseUrl, 'admin@fernleigh.example');
       const adminMenu = await menuLabels(b.page);
       expect(adminMenu).toEqual(expect.arrayContaining(['Overview', 'People', 'Activity', 'Account']));
-      await b.page.getByRole('link', { name: 'People' }).click();
+      await b.page.getByTestId('nav-People').click();
       await b.page.getByText('admin@fernleigh.example').first().waitFor();
       await screenshot(b.page, 'people-admin-wide');
-      await b.page.getByRole('link', { name: 'Activity' }).click();
+      await b.page.getByTestId('nav-Activity').click();
       await b.page.getByText('signed in').first().waitFor();
       await screenshot(b.page, 'activity-admin-wide');
       await b.page.getByRole('button', { name: 'Sign out' }).click();
