@@ -6,6 +6,11 @@ export type NavItem = { href: string; label: string; icon: IconName; permission:
 
 export const NAV_ITEMS: NavItem[] = [
   { href: '/', label: 'Overview', icon: 'home', permission: 'scheme:read' },
+  { href: '/funds', label: 'Funds', icon: 'pie', permission: 'funds:read' },
+  { href: '/assumptions', label: 'Assumptions', icon: 'sliders', permission: 'assumptions:read' },
+  { href: '/options', label: 'Options', icon: 'path', permission: 'options:read' },
+  { href: '/members', label: 'Members', icon: 'card', permission: 'members:read' },
+  { href: '/projections', label: 'Projections', icon: 'chart', permission: 'runs:read' },
   { href: '/people', label: 'People', icon: 'people', permission: 'people:manage' },
   { href: '/activity', label: 'Activity', icon: 'log', permission: 'audit:read' },
   { href: '/account', label: 'Account', icon: 'person', permission: 'scheme:read' },

@@ -1,0 +1,129 @@
+import { useState } from 'react';
+import { Pressable, Text, TextInput, View } from 'react-native';
+import { lambdaFromGamble } from '@/simulation';
+import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
+import { Button, styles } from './ui';
+import { money } from './projectionFigures';
+
+const PRESETS = [-1, 0, 1, 2, 3, 5, 8];
+const MIN = -5;
+const MAX = 50;
+const clamp = (v: number) => Math.min(MAX, Math.max(MIN, Math.round(v * 10) / 10));
+
+/** The board's risk aversion λ: presets, a stepper and a typed value, plus a calibration by a stated gamble. */
+export function LambdaControl({ value, onChange, currency }: { value: number; onChange: (v: number) => void; currency: string }) {
+  const [text, setText] = useState<string | null>(null);
+  const shown = text ?? String(value);
+  return (
+    <View style={{ gap: space.sm }}>
+      <Text style={styles.body}>
+        λ sets how much the board dislikes a spread of outcomes. At 0 only the average pot counts (risk-neutral); higher values weigh poor outcomes more heavily; below 0 the board would prefer a wider spread (risk-seeking).
+      </Text>
+      <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' }}>
+        <Step label="−" a11y="Lower λ by 0.5" onPress={() => onChange(clamp(value - 0.5))} />
+        <TextInput
+          accessibilityLabel="Risk aversion λ"
+          value={shown}
+          inputMode="decimal"
+          onChangeText={setText}
+          onBlur={() => {
+            const v = Number(shown);
+            if (shown.trim() !== '' && Number.isFinite(v)) onChange(clamp(v));
+            setText(null);
+          }}
+          onSubmitEditing={() => {
+            const v = Number(shown);
+            if (shown.trim() !== '' && Number.isFinite(v)) onChange(clamp(v));
+            setText(null);
+          }}
+          style={[styles.input, { width: 80, textAlign: 'center' }]}
+        />
+        <Step label="+" a11y="Raise λ by 0.5" onPress={() => onChange(clamp(value + 0.5))} />
+        {PRESETS.map((p) => (
+          <Pressable
+            key={p}
+            accessibilityRole="button"
+            accessibilityLabel={`λ ${p}`}
+            accessibilityState={{ selected: p === value }}
+            onPress={() => onChange(p)}
+            style={{
+              minHeight: MIN_TOUCH,
+              minWidth: MIN_TOUCH,
+              paddingHorizontal: space.sm,
+              borderRadius: radius.md,
+              borderWidth: 1,
+              borderColor: colors.primary,
+              backgroundColor: p === value ? colors.primary : colors.surface,
+              alignItems: 'center',
+              justifyContent: 'center',
+            }}
+          >
+            <Text style={[type.label, { color: p === value ? colors.onPrimary : colors.primary }]}>{p}</Text>
+          </Pressable>
+        ))}
+      </View>
+      <Calibrate currency={currency} onUse={onChange} />
+    </View>
+  );
+}
+
+function Step({ label, a11y, onPress }: { label: string; a11y: string; onPress: () => void }) {
+  return (
+    <Pressable
+      accessibilityRole="button"
+      accessibilityLabel={a11y}
+      onPress={onPress}
+      style={{ width: MIN_TOUCH, height: MIN_TOUCH, borderRadius: radius.md, borderWidth: 1, borderColor: colors.primary, alignItems: 'center', justifyContent: 'center' }}
+    >
+      <Text style={[type.title, { color: colors.primary }]}>{label}</Text>
+    </Pressable>
+  );
+}
+
+/** The board states the smallest win that would make an even-odds gamble acceptable; Keelson gives the λ. */
+function Calibrate({ currency, onUse }: { currency: string; onUse: (v: number) => void }) {
+  const [open, setOpen] = useState(false);
+  const [pot, setPot] = useState('200000');
+  const [loss, setLoss] = useState('40000');
+  const [gain, setGain] = useState('60000');
+  if (!open) return <Button kind="secondary" label="Calibrate λ from a gamble" onPress={() => setOpen(true)} />;
+  let answer: { lambda: number } | { error: string };
+  try {
+    answer = { lambda: lambdaFromGamble({ pot: Number(pot), loss: Number(loss), gain: Number(gain) }) };
+  } catch (e) {
+    answer = { error: (e as Error).message };
+  }
+  return (
+    <View style={{ gap: space.sm, borderTopWidth: 1, borderColor: colors.rule, paddingTop: space.sm }}>
+      <Text style={styles.body}>
+        A member has a pot of {money(Number(pot) || 0, currency)}. A coin toss would cost {money(Number(loss) || 0, currency)} on tails. How much would heads have to win before the board would accept the toss?
+      </Text>
+      <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm }}>
+        <Num label="Pot" value={pot} onChange={setPot} />
+        <Num label="Loss on tails" value={loss} onChange={setLoss} />
+        <Num label="Smallest acceptable win on heads" value={gain} onChange={setGain} />
+      </View>
+      {'lambda' in answer ? (
+        <View style={{ flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md }}>
+          <Text style={styles.body} testID="calibrated-lambda">
+            That answer corresponds to λ = {answer.lambda.toFixed(2)}.
+          </Text>
+          <Button label="Use this λ" onPress={() => onUse(clamp(answer.lambda))} />
+        </View>
+      ) : (
+        <Text style={[type.caption, { color: colors.danger }]} role="alert">
+          {answer.error}
+        </Text>
+      )}
+    </View>
+  );
+}
+
+function Num({ label, value, onChange }: { label: string; value: string; onChange: (v: string) => void }) {
+  return (
+    <View style={{ minWidth: 140, flexGrow: 1 }}>
+      <Text style={styles.label}>{label}</Text>
+      <TextInput accessibilityLabel={label} value={value} onChangeText={onChange} inputMode="numeric" style={styles.input} />
+    </View>
+  );
+}
