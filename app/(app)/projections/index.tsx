@@ -2,7 +2,6 @@ import { useMemo, useState } from 'react';
 import { Pressable, Text, View } from 'react-native';
 import { useRouter } from 'expo-router';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
-import { ProgressBar } from '@/components/ProgressBar';
 import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
@@ -195,7 +194,6 @@ function NewComparison({ schemeId }: { schemeId: string }) {
       {formError ? <Notice tone="error">{formError}</Notice> : null}
       {start.error && !start.error.message.startsWith('Some fields') ? <Notice tone="error">{start.error.message}</Notice> : null}
       <Button label="Start comparison" onPress={submit} busy={start.isPending} />
-      {start.isPending ? <ProgressBar fraction={0} label="Queueing" /> : null}
     </Card>
   );
 }

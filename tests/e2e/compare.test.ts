@@ -1,0 +1,75 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startRunWorker, type RunWorker } from '../../server/jobs';
+import { startTestServer, type TestServer } from '../helpers/app';
+import { launch, PHONE, screenshot, signIn, WIDE } from './browser';
+
+process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
+
+let s: TestServer;
+let worker: RunWorker;
+beforeAll(async () => {
+  s = await startTestServer({ env: { WEB_DIST: process.env.KEELSON_WEB_DIST ?? 'dist' } });
+  worker = await startRunWorker({ databaseUrl: s.url, threads: 1, log: () => {} });
+});
+afterAll(async () => {
+  await worker?.stop();
+  await s?.close();
+});
+
+describe('comparing default options', () => {
+  it('lets a trustee start a comparison, watch it finish, read the ranking and move λ', async () => {
+    const b = await launch(WIDE);
+    try {
+      const { page } = b;
+      await signIn(page, s.baseUrl, 'trustee@fernleigh.example');
+      await page.getByRole('link', { name: 'Projections' }).first().click();
+      await page.getByText('New comparison').waitFor();
+      // The four demo options and three members are chosen by default; 5,000 paths keeps the bar visible.
+      await page.getByRole('checkbox', { name: '5,000' }).click();
+      await page.getByRole('button', { name: 'Start comparison' }).click();
+      await page.getByRole('progressbar').first().waitFor({ timeout: 15_000 });
+      await page.getByTestId('comparison-table').first().waitFor({ timeout: 60_000 });
+      expect(await page.getByRole('progressbar').count()).toBe(0);
+      expect(await page.getByTestId('caution-notice').count()).toBe(1);
+
+      const charts = page.getByTestId('fan-chart');
+      expect(await charts.count()).toBe(4);
+      const text = await page.getByTestId('fan-chart-text').first().innerText();
+      expect(text).toMatch(/median £[\d,]+/);
+      const ranked = page.getByTestId('ranked-option');
+      expect(await ranked.count()).toBe(4);
+      await screenshot(page, 'compare-wide');
+
+      const sentence = page.getByTestId('break-even-sentence');
+      const firstAt2 = await ranked.first().innerText();
+      const sentenceAt2 = await sentence.innerText();
+      expect(sentenceAt2).toMatch(/ranks above/);
+      await page.getByRole('button', { name: 'λ 0', exact: true }).click();
+      await page.getByText('Options ranked at λ = 0').waitFor();
+      const sentenceAt0 = await sentence.innerText();
+      await page.getByRole('button', { name: 'λ 8', exact: true }).click();
+      await page.getByText('Options ranked at λ = 8').waitFor();
+      const sentenceAt8 = await sentence.innerText();
+      const firstAt8 = await ranked.first().innerText();
+      // A risk-neutral board and a strongly averse one should not rank the demo options alike.
+      expect(new Set([sentenceAt0, sentenceAt2, sentenceAt8]).size, `${sentenceAt0} | ${sentenceAt2} | ${sentenceAt8}`).toBeGreaterThan(1);
+      expect(`${firstAt2} ${firstAt8}`).toMatch(/^1\./);
+
+      // Phone size: the same run, cards stacked.
+      const url = page.url();
+      const phone = await launch(PHONE);
+      try {
+        await signIn(phone.page, s.baseUrl, 'trustee@fernleigh.example');
+        await phone.page.goto(url);
+        await phone.page.getByTestId('fan-chart').first().waitFor({ timeout: 30_000 });
+        await screenshot(phone.page, 'compare-phone');
+        await phone.page.getByTestId('comparison-table').first().scrollIntoViewIfNeeded();
+        await screenshot(phone.page, 'compare-phone-table');
+      } finally {
+        await phone.close();
+      }
+    } finally {
+      await b.close();
+    }
+  });
+});
