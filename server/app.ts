@@ -9,6 +9,10 @@ import { authRouter } from './routes/auth';
 import { peopleRouter } from './routes/people';
 import { schemeDataRouters } from './routes/schemeData';
 import { runsRouter } from './routes/runs';
+import { reportsRouter } from './routes/reports';
+import { statementsRouter } from './routes/statements';
+import { outboxRouter } from './routes/outbox';
+import { mailSender } from './email/outbox';
 import { installSessions, requireSameSiteWrite } from './auth/session';
 
 /**
@@ -41,6 +45,8 @@ export function createApp(ctx: AppContext): Express {
   );
 
   app.locals.db = ctx.db;
+  // Invitations, password resets and reports all go through the outbox and its delivery job.
+  app.locals.sendMail = mailSender(ctx.db, ctx.pool);
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
   api.use(rejectNulCharacters);
@@ -51,6 +57,7 @@ export function createApp(ctx: AppContext): Express {
   api.use(peopleRouter(ctx));
   api.use(schemeDataRouters(ctx));
   api.use(runsRouter(ctx));
+  api.use(reportsRouter(ctx), statementsRouter(ctx), outboxRouter(ctx));
   api.use((_req, _res, next) => next(notFound('No such API route.')));
   app.use('/api', api);
 

@@ -21,6 +21,19 @@ const ConfigSchema = z.object({
   SIGN_IN_RATE_LIMIT: z.coerce.number().int().min(1).default(50),
   /** Public base URL used in links (invitations, password resets). */
   PUBLIC_URL: z.string().url().optional(),
+  /** Outgoing mail server. Unset: a local stand-in on loopback keeps mail in the database instead. */
+  SMTP_HOST: z.string().min(1).optional(),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
+  /** true for implicit TLS (port 465); otherwise STARTTLS is used when the server offers it. */
+  SMTP_SECURE: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASS: z.string().optional(),
+  SMTP_FROM: z.string().min(3).default('Keelson <no-reply@keelson.local>'),
+  /** Port of the local stand-in mail server when SMTP_HOST is unset (0: any free port). */
+  LOCAL_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(0),
 });
 
 export type Config = z.infer<typeof ConfigSchema> & { SESSION_SECRET: string };

@@ -2,6 +2,7 @@ import http from 'node:http';
 import { createDb } from '../db/client';
 import { createApp } from './app';
 import { loadConfig } from './config';
+import { startMailAndExports } from './email/start';
 import { startRunWorker, type RunWorker } from './jobs';
 
 async function main() {
@@ -15,6 +16,11 @@ async function main() {
   const { db, pool } = createDb(config.DATABASE_URL);
   const app = createApp({ db, pool, config });
   const server = http.createServer(app);
+  // Mail delivery and statement exports (and the local stand-in mail server unless SMTP_HOST is set).
+  const background = await startMailAndExports({ db, pool, config }).catch((err: Error) => {
+    console.error(`keelson: mail and export workers failed to start: ${err.message}`);
+    process.exit(1);
+  });
 
   server.on('error', (err: NodeJS.ErrnoException) => {
     if (err.code === 'EADDRINUSE') {
@@ -48,6 +54,8 @@ async function main() {
     console.log(`keelson: ${signal} received, stopping the server...`);
     server.close(() => {
       (worker ? worker.stop() : Promise.resolve())
+        .catch(() => undefined)
+        .then(() => background.stop())
         .catch(() => undefined)
         .then(() => pool.end())
         .finally(() => {

@@ -1,0 +1,101 @@
+import { randomUUID } from 'node:crypto';
+import type PgBoss from 'pg-boss';
+import type { Pool } from 'pg';
+import type { Db, DbOrTx } from '../../db/client';
+import { createBoss, producerFor, queueSettings, transactionExecutor } from './queue';
+import { processMail } from '../email/outbox';
+import type { MailTransport } from '../email/transport';
+import { processStatementExport } from '../services/statements';
+
+/**
+ * Queues for mail delivery and statement exports, next to the projection queue in the same
+ * pg-boss schema. Jobs carry only an id; the row holds the rest and its status.
+ */
+export const MAIL_QUEUE = 'mail-send';
+export const EXPORT_QUEUE = 'statement-export';
+
+function num(name: string, fallback: number, min: number, env: Record<string, string | undefined> = process.env): number {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const v = Number(raw);
+  if (!Number.isFinite(v) || v < min) throw new Error(`${name} must be a number of at least ${min} (got "${raw}")`);
+  return v;
+}
+
+/** Retries for a failed send: attempts after the first, and the first delay (doubling after). */
+export function mailRetrySettings() {
+  return { retryLimit: num('KEELSON_MAIL_RETRY_LIMIT', 5, 0), retryDelay: num('KEELSON_MAIL_RETRY_DELAY_SECONDS', 30, 0), retryBackoff: true };
+}
+
+function queueOptions(name: string) {
+  if (name === MAIL_QUEUE) return { name, policy: 'standard' as const, ...mailRetrySettings(), expireInSeconds: 120 };
+  return { name, policy: 'standard' as const, retryLimit: 2, retryDelay: 5, retryBackoff: false, expireInSeconds: 30 * 60 };
+}
+
+async function ensureQueue(boss: PgBoss, name: string) {
+  const options = queueOptions(name);
+  if (await boss.getQueue(name)) await boss.updateQueue(name, options);
+  else {
+    try {
+      await boss.createQueue(name, options);
+    } catch (e) {
+      if (!(await boss.getQueue(name))) throw e;
+    }
+  }
+}
+
+const ready = new WeakMap<Pool, Promise<PgBoss>>();
+
+/** The started producer with this module's queues created; call before opening the transaction that queues. */
+export function backgroundProducer(pool: Pool): Promise<PgBoss> {
+  let p = ready.get(pool);
+  if (!p) {
+    p = (async () => {
+      const boss = await producerFor(pool);
+      await ensureQueue(boss, MAIL_QUEUE);
+      await ensureQueue(boss, EXPORT_QUEUE);
+      return boss;
+    })();
+    p.catch(() => ready.delete(pool));
+    ready.set(pool, p);
+  }
+  return p;
+}
+
+/** Queues a job inside the caller's transaction, so it exists exactly when the row does. */
+export async function enqueue(pool: Pool, tx: DbOrTx, queue: string, data: { id: string }): Promise<void> {
+  const boss = await backgroundProducer(pool);
+  const o = queueOptions(queue);
+  await boss.send(queue, data, { id: randomUUID(), retryLimit: o.retryLimit, retryDelay: o.retryDelay, retryBackoff: o.retryBackoff, expireInSeconds: o.expireInSeconds, db: transactionExecutor(tx) });
+}
+
+export type BackgroundWorkers = { stop: () => Promise<void> };
+
+/** Starts the mail and statement-export workers on the given database. */
+export async function startBackgroundWorkers(opts: { db: Db; pool: Pool; transport: MailTransport; log?: (m: string) => void }): Promise<BackgroundWorkers> {
+  const log = opts.log ?? ((m: string) => console.log(`keelson: ${m}`));
+  const boss = createBoss(opts.pool, 'worker');
+  await boss.start();
+  await ensureQueue(boss, MAIL_QUEUE);
+  await ensureQueue(boss, EXPORT_QUEUE);
+  const pollingIntervalSeconds = queueSettings().pollingIntervalSeconds;
+  await boss.work<{ id: string }>(MAIL_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds }, async ([job]) => {
+    const lastAttempt = job.retryCount >= job.retryLimit;
+    const outcome = await processMail(opts.db, opts.transport, job.data.id, { lastAttempt });
+    if (outcome !== 'sent') log(`mail ${job.data.id}: ${outcome}`);
+  });
+  await boss.work<{ id: string }>(EXPORT_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds }, async ([job]) => {
+    const lastAttempt = job.retryCount >= job.retryLimit;
+    const outcome = await processStatementExport(opts.db, job.data.id, { lastAttempt });
+    log(`statement export ${job.data.id}: ${outcome}`);
+  });
+  let stopped = false;
+  return {
+    stop: async () => {
+      if (stopped) return;
+      stopped = true;
+      await boss.stop({ graceful: true, timeout: 5000, close: false });
+      opts.transport.close();
+    },
+  };
+}

@@ -1,0 +1,298 @@
+import path from 'node:path';
+import PDFDocument from 'pdfkit';
+
+/**
+ * Shared PDF drawing for Keelson's documents: fonts, page furniture, tables and charts drawn
+ * as vector graphics. Colours follow constants/theme.ts.
+ */
+export const PDF_COLORS = {
+  ink: '#1D2327',
+  muted: '#5B6770',
+  rule: '#E3DED6',
+  primary: '#1F4E4A',
+  primaryTint: '#E4EEEC',
+  accent: '#B7791F',
+  accentTint: '#F6ECDB',
+  danger: '#A63D32',
+  band90: '#CFE0DD',
+  band50: '#8DB3AD',
+  series: ['#1F4E4A', '#B7791F', '#5A4E9A', '#A63D32', '#3F7FA6', '#6B7F2A', '#8A6D5B', '#4F6D7A'],
+} as const;
+
+const FONT_DIR = path.dirname(require.resolve('@expo-google-fonts/source-sans-3/package.json'));
+const FONTS = {
+  regular: path.join(FONT_DIR, '400Regular/SourceSans3_400Regular.ttf'),
+  semibold: path.join(FONT_DIR, '600SemiBold/SourceSans3_600SemiBold.ttf'),
+  bold: path.join(FONT_DIR, '700Bold/SourceSans3_700Bold.ttf'),
+};
+
+export type Doc = PDFKit.PDFDocument;
+
+export const MARGIN = 50;
+export const FOOTER_SPACE = 36;
+
+export function newDocument(info: { title: string; subject: string }): Doc {
+  const doc = new PDFDocument({
+    size: 'A4',
+    margins: { top: MARGIN, bottom: MARGIN, left: MARGIN, right: MARGIN },
+    bufferPages: true,
+    info: { Title: info.title, Subject: info.subject, Author: 'Keelson', Creator: 'Keelson' },
+  });
+  doc.registerFont('regular', FONTS.regular);
+  doc.registerFont('semibold', FONTS.semibold);
+  doc.registerFont('bold', FONTS.bold);
+  doc.font('regular').fontSize(10).fillColor(PDF_COLORS.ink);
+  return doc;
+}
+
+export function toBuffer(doc: Doc): Promise<Buffer> {
+  return new Promise((resolve, reject) => {
+    const chunks: Buffer[] = [];
+    doc.on('data', (c: Buffer) => chunks.push(c));
+    doc.on('end', () => resolve(Buffer.concat(chunks)));
+    doc.on('error', reject);
+    doc.end();
+  });
+}
+
+export const contentWidth = (doc: Doc) => doc.page.width - MARGIN * 2;
+const bottomLimit = (doc: Doc) => doc.page.height - MARGIN - FOOTER_SPACE;
+
+/** Starts a new page unless `height` points still fit on this one. */
+export function ensureSpace(doc: Doc, height: number) {
+  if (doc.y + height > bottomLimit(doc)) {
+    doc.addPage();
+    doc.x = MARGIN;
+  }
+}
+
+export function heading(doc: Doc, text: string, size = 16) {
+  ensureSpace(doc, size * 3);
+  doc.moveDown(0.6);
+  doc.font('bold').fontSize(size).fillColor(PDF_COLORS.primary).text(text, MARGIN, doc.y, { width: contentWidth(doc) });
+  doc.moveDown(0.3);
+  doc.font('regular').fontSize(10).fillColor(PDF_COLORS.ink);
+}
+
+export function paragraph(doc: Doc, text: string, opts: { size?: number; color?: string; font?: 'regular' | 'semibold' | 'bold' } = {}) {
+  doc.font(opts.font ?? 'regular').fontSize(opts.size ?? 10);
+  const h = doc.heightOfString(text, { width: contentWidth(doc) });
+  ensureSpace(doc, h + 4);
+  doc.fillColor(opts.color ?? PDF_COLORS.ink).text(text, MARGIN, doc.y, { width: contentWidth(doc) });
+  doc.moveDown(0.4);
+  doc.font('regular').fontSize(10).fillColor(PDF_COLORS.ink);
+}
+
+/** A boxed notice (cautions, draft marking). */
+export function noticeBox(doc: Doc, title: string, lines: string[], tone: 'caution' | 'danger' = 'caution') {
+  const w = contentWidth(doc);
+  const pad = 10;
+  doc.fontSize(9.5);
+  const textH = lines.reduce((h, l) => h + doc.font('regular').heightOfString(l, { width: w - pad * 2 }) + 3, 0);
+  const h = textH + 14 + pad * 2;
+  ensureSpace(doc, h + 6);
+  const y = doc.y;
+  const [bg, border, titleColor] = tone === 'danger' ? ['#F7E4E1', PDF_COLORS.danger, PDF_COLORS.danger] : [PDF_COLORS.accentTint, PDF_COLORS.accent, '#7A4F12'];
+  doc.save().roundedRect(MARGIN, y, w, h, 6).fillAndStroke(bg, border).restore();
+  doc.font('semibold').fontSize(10).fillColor(titleColor).text(title, MARGIN + pad, y + pad, { width: w - pad * 2 });
+  let ty = y + pad + 14;
+  doc.font('regular').fontSize(9.5).fillColor(PDF_COLORS.ink);
+  for (const l of lines) {
+    doc.text(l, MARGIN + pad, ty, { width: w - pad * 2 });
+    ty = doc.y + 3;
+  }
+  doc.x = MARGIN;
+  doc.y = y + h + 8;
+  doc.font('regular').fontSize(10);
+}
+
+export type Column = { header: string; width: number; align?: 'left' | 'right' };
+
+/** A table with a header row repeated after each page break; numbers right-aligned. */
+export function table(doc: Doc, columns: Column[], rows: string[][], opts: { size?: number } = {}) {
+  const size = opts.size ?? 8.5;
+  const pad = 3;
+  const total = columns.reduce((s, c) => s + c.width, 0);
+  const scale = Math.min(1, contentWidth(doc) / total);
+  const cols = columns.map((c) => ({ ...c, width: c.width * scale }));
+  const rowHeight = (cells: string[], font: string) => {
+    doc.font(font).fontSize(size);
+    return Math.max(...cells.map((t, i) => doc.heightOfString(t || ' ', { width: cols[i].width - pad * 2 }))) + pad * 2;
+  };
+  const drawRow = (cells: string[], font: string, fill?: string) => {
+    const h = rowHeight(cells, font);
+    const y = doc.y;
+    if (fill) doc.save().rect(MARGIN, y, total * scale, h).fill(fill).restore();
+    let x = MARGIN;
+    doc.font(font).fontSize(size).fillColor(PDF_COLORS.ink);
+    cells.forEach((t, i) => {
+      doc.text(t, x + pad, y + pad, { width: cols[i].width - pad * 2, align: cols[i].align ?? 'left', lineBreak: true });
+      x += cols[i].width;
+    });
+    doc.save().moveTo(MARGIN, y + h).lineTo(MARGIN + total * scale, y + h).lineWidth(0.5).strokeColor(PDF_COLORS.rule).stroke().restore();
+    doc.x = MARGIN;
+    doc.y = y + h;
+  };
+  const header = cols.map((c) => c.header);
+  ensureSpace(doc, rowHeight(header, 'semibold') + rowHeight(rows[0] ?? header, 'regular'));
+  drawRow(header, 'semibold', PDF_COLORS.primaryTint);
+  for (const r of rows) {
+    if (doc.y + rowHeight(r, 'regular') > bottomLimit(doc)) {
+      doc.addPage();
+      drawRow(header, 'semibold', PDF_COLORS.primaryTint);
+    }
+    drawRow(r, 'regular');
+  }
+  doc.moveDown(0.6);
+  doc.font('regular').fontSize(10);
+}
+
+/** About five round tick values covering [0, max]. */
+export function niceTicks(max: number, count = 5): number[] {
+  if (!(max > 0)) return [0, 1];
+  const raw = max / count;
+  const mag = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw)!;
+  const ticks: number[] = [];
+  for (let v = 0; v <= max + step * 0.999; v += step) ticks.push(v);
+  return ticks;
+}
+
+export function compactMoney(v: number, symbol: string): string {
+  if (v >= 1e6) return `${symbol}${(v / 1e6).toFixed(v % 1e6 === 0 ? 0 : 1)}m`;
+  if (v >= 1e3) return `${symbol}${Math.round(v / 1e3)}k`;
+  return `${symbol}${Math.round(v)}`;
+}
+
+type Axes = { x: number; y: number; w: number; h: number; xMin: number; xMax: number; yMax: number };
+const sx = (a: Axes, v: number) => a.x + ((v - a.xMin) / (a.xMax - a.xMin || 1)) * a.w;
+const sy = (a: Axes, v: number) => a.y + a.h - (v / (a.yMax || 1)) * a.h;
+
+function axes(doc: Doc, a: Axes, xLabel: string, yLabel: string, yTicks: number[], yFmt: (v: number) => string, xTicks: number[]) {
+  doc.save().lineWidth(0.5).strokeColor(PDF_COLORS.rule);
+  doc.font('regular').fontSize(7).fillColor(PDF_COLORS.muted);
+  for (const t of yTicks) {
+    const y = sy(a, t);
+    doc.moveTo(a.x, y).lineTo(a.x + a.w, y).stroke();
+    doc.text(yFmt(t), a.x - 44, y - 4, { width: 40, align: 'right' });
+  }
+  for (const t of xTicks) doc.text(String(t), sx(a, t) - 15, a.y + a.h + 3, { width: 30, align: 'center' });
+  doc.strokeColor(PDF_COLORS.muted).moveTo(a.x, a.y + a.h).lineTo(a.x + a.w, a.y + a.h).stroke();
+  doc.fontSize(7.5).text(xLabel, a.x, a.y + a.h + 13, { width: a.w, align: 'center' });
+  doc.rotate(-90, { origin: [a.x - 50, a.y + a.h / 2] });
+  doc.text(yLabel, a.x - 50 - a.h / 2, a.y + a.h / 2 - 4, { width: a.h, align: 'center' });
+  doc.restore();
+}
+
+function xTicksFor(min: number, max: number): number[] {
+  const span = max - min;
+  const step = span <= 10 ? 1 : span <= 25 ? 5 : 10;
+  const out: number[] = [];
+  for (let v = Math.ceil(min / step) * step; v <= max; v += step) out.push(v);
+  if (out[0] !== min) out.unshift(min);
+  return out;
+}
+
+/**
+ * A fan chart: the 5–95 and 25–75 percentile bands of the pot in today's money by age, the
+ * median in ochre, and the target pot as a dashed line.
+ */
+export function fanChart(
+  doc: Doc,
+  opts: { title: string; ages: number[]; lowOuter: number[]; lowInner: number[]; median: number[]; highInner: number[]; highOuter: number[]; target: number | null; symbol: string; outerLabel: string; innerLabel: string; summary: string },
+) {
+  const totalH = 215;
+  ensureSpace(doc, totalH);
+  const top = doc.y;
+  doc.font('semibold').fontSize(10).fillColor(PDF_COLORS.ink).text(opts.title, MARGIN, top, { width: contentWidth(doc) });
+  const a: Axes = { x: MARGIN + 56, y: top + 18, w: contentWidth(doc) - 66, h: 140, xMin: opts.ages[0], xMax: opts.ages[opts.ages.length - 1], yMax: 0 };
+  const yMax = Math.max(...opts.highOuter, opts.target ?? 0) * 1.05;
+  const ticks = niceTicks(yMax);
+  a.yMax = ticks[ticks.length - 1];
+  axes(doc, a, 'Age', "Pot in today's money", ticks, (v) => compactMoney(v, opts.symbol), xTicksFor(a.xMin, a.xMax));
+  const band = (lo: number[], hi: number[], color: string) => {
+    const pts: [number, number][] = [];
+    opts.ages.forEach((age, i) => pts.push([sx(a, age), sy(a, hi[i])]));
+    for (let i = opts.ages.length - 1; i >= 0; i--) pts.push([sx(a, opts.ages[i]), sy(a, lo[i])]);
+    doc.save().polygon(...pts).fill(color).restore();
+  };
+  band(opts.lowOuter, opts.highOuter, PDF_COLORS.band90);
+  band(opts.lowInner, opts.highInner, PDF_COLORS.band50);
+  doc.save().lineWidth(1.6).strokeColor(PDF_COLORS.accent);
+  opts.ages.forEach((age, i) => (i === 0 ? doc.moveTo(sx(a, age), sy(a, opts.median[i])) : doc.lineTo(sx(a, age), sy(a, opts.median[i]))));
+  doc.stroke().restore();
+  if (opts.target !== null && opts.target > 0) {
+    const y = sy(a, opts.target);
+    doc.save().lineWidth(0.9).dash(4, { space: 3 }).strokeColor(PDF_COLORS.ink).moveTo(a.x, y).lineTo(a.x + a.w, y).stroke().undash().restore();
+  }
+  // Legend and the chart's key figures as text.
+  const ly = a.y + a.h + 26;
+  const legend: [string, string][] = [
+    [PDF_COLORS.band90, opts.outerLabel],
+    [PDF_COLORS.band50, opts.innerLabel],
+    [PDF_COLORS.accent, 'median'],
+    [PDF_COLORS.ink, 'target pot (dashed)'],
+  ];
+  let lx = a.x;
+  doc.font('regular').fontSize(7.5).fillColor(PDF_COLORS.muted);
+  for (const [c, label] of legend) {
+    doc.save().rect(lx, ly + 1, 10, 6).fill(c).restore();
+    doc.fillColor(PDF_COLORS.muted).text(label, lx + 13, ly, { lineBreak: false });
+    lx += 13 + doc.widthOfString(label) + 14;
+  }
+  doc.font('regular').fontSize(8.5).fillColor(PDF_COLORS.ink).text(opts.summary, MARGIN, ly + 12, { width: contentWidth(doc) });
+  doc.x = MARGIN;
+  doc.y = Math.max(doc.y, top + totalH - 10) + 6;
+}
+
+/** A glide path as stacked areas of fund weights against years to retirement (left: far from retirement). */
+export function glidePathChart(doc: Doc, opts: { title: string; years: number[]; series: { name: string; weights: number[] }[] }) {
+  const totalH = 170;
+  ensureSpace(doc, totalH);
+  const top = doc.y;
+  doc.font('semibold').fontSize(10).fillColor(PDF_COLORS.ink).text(opts.title, MARGIN, top, { width: contentWidth(doc) });
+  const maxY = opts.years[0];
+  const a: Axes = { x: MARGIN + 56, y: top + 18, w: contentWidth(doc) - 66 - 130, h: 110, xMin: 0, xMax: maxY, yMax: 1 };
+  // Years to retirement decrease left to right; map v → maxY − v.
+  const X = (ytr: number) => sx(a, maxY - ytr);
+  axes(doc, a, 'Years to retirement', 'Share of the pot', [0, 0.25, 0.5, 0.75, 1], (v) => `${Math.round(v * 100)}%`, []);
+  doc.font('regular').fontSize(7).fillColor(PDF_COLORS.muted);
+  for (const t of xTicksFor(0, maxY)) doc.text(String(t), X(t) - 15, a.y + a.h + 3, { width: 30, align: 'center' });
+  const cum = new Array(opts.years.length).fill(0) as number[];
+  opts.series.forEach((s, k) => {
+    const lower = cum.slice();
+    s.weights.forEach((w, i) => (cum[i] += w));
+    const pts: [number, number][] = opts.years.map((ytr, i) => [X(ytr), sy(a, cum[i])]);
+    for (let i = opts.years.length - 1; i >= 0; i--) pts.push([X(opts.years[i]), sy(a, lower[i])]);
+    doc.save().polygon(...pts).fill(PDF_COLORS.series[k % PDF_COLORS.series.length]).restore();
+  });
+  let ly = a.y;
+  opts.series.forEach((s, k) => {
+    doc.save().rect(a.x + a.w + 12, ly + 1, 9, 7).fill(PDF_COLORS.series[k % PDF_COLORS.series.length]).restore();
+    doc.font('regular').fontSize(7.5).fillColor(PDF_COLORS.ink).text(s.name, a.x + a.w + 25, ly, { width: 110 });
+    ly = doc.y + 3;
+  });
+  doc.x = MARGIN;
+  doc.y = top + totalH;
+}
+
+/** Page footers (and a DRAFT mark across every page when asked), drawn once all pages exist. */
+export function finishPages(doc: Doc, footer: string, draft: boolean) {
+  const range = doc.bufferedPageRange();
+  for (let i = range.start; i < range.start + range.count; i++) {
+    doc.switchToPage(i);
+    if (draft) {
+      doc.save();
+      doc.rotate(-35, { origin: [doc.page.width / 2, doc.page.height / 2] });
+      doc.font('bold').fontSize(110).fillColor(PDF_COLORS.danger).fillOpacity(0.1);
+      doc.text('DRAFT', 0, doc.page.height / 2 - 60, { width: doc.page.width, align: 'center', lineBreak: false });
+      doc.restore();
+    }
+    // Writing below the bottom margin must not start a new page.
+    const bottom = doc.page.margins.bottom;
+    doc.page.margins.bottom = 0;
+    doc.font('regular').fontSize(7.5).fillColor(PDF_COLORS.muted);
+    doc.text(`${footer} · page ${i - range.start + 1} of ${range.count}`, MARGIN, doc.page.height - MARGIN + 8, { width: contentWidth(doc), align: 'center', lineBreak: false });
+    doc.page.margins.bottom = bottom;
+  }
+}
