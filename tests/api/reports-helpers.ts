@@ -1,0 +1,43 @@
+import { PDFParse } from 'pdf-parse';
+import { expect } from 'vitest';
+import type { Client } from '../helpers/app';
+
+/** The text of a PDF, as pdf-parse extracts it, with runs of white space made single spaces. */
+export async function pdfText(buf: Buffer): Promise<{ text: string; pages: number }> {
+  const p = new PDFParse({ data: new Uint8Array(buf) });
+  try {
+    const r = await p.getText();
+    return { text: r.text.replace(/\s+/g, ' '), pages: r.total };
+  } finally {
+    await p.destroy();
+  }
+}
+
+/** Downloads a file from the API as bytes. */
+export async function download(c: Client, path: string): Promise<{ status: number; type: string | null; disposition: string | null; body: Buffer }> {
+  const res = await fetch(`${c.baseUrl}/api${path}`, { headers: { Cookie: c.cookie } });
+  return { status: res.status, type: res.headers.get('content-type'), disposition: res.headers.get('content-disposition'), body: Buffer.from(await res.arrayBuffer()) };
+}
+
+/** Waits for a run started through the runs API to finish. */
+export async function waitForRun(c: Client, schemeId: string, runId: string, timeoutMs = 90_000) {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const r = await c.get(`/schemes/${schemeId}/runs/${runId}`);
+    expect(r.status).toBe(200);
+    if (r.body.status === 'done' || r.body.status === 'failed') return r.body;
+    if (Date.now() > until) throw new Error(`run ${runId} still ${r.body.status} after ${timeoutMs} ms`);
+    await new Promise((res) => setTimeout(res, 100));
+  }
+}
+
+/** Polls `check` until it returns a value, or fails with the last state seen. */
+export async function eventually<T>(what: string, check: () => Promise<T | null | undefined | false>, timeoutMs = 30_000): Promise<T> {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const v = await check();
+    if (v) return v;
+    if (Date.now() > until) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((res) => setTimeout(res, 100));
+  }
+}

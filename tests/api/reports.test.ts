@@ -1,0 +1,172 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { and, eq, sql } from 'drizzle-orm';
+import { parse } from 'csv-parse/sync';
+import { assumptionSets, auditEvents, defaultOptions, illustrativeMembers, reports } from '../../db/schema';
+import { certaintyEquivalentPot } from '../../simulation';
+import { startRunWorker, type RunWorker } from '../../server/jobs';
+import { formatLambda, formatMoney, formatPercent } from '../../server/reports/format';
+import { CAUTION_TEXT, DRAFT_TEXT } from '../../server/reports/caution';
+import { Client, startTestServer, type TestServer } from '../helpers/app';
+import { insertFinishedRun } from './route-examples/reports';
+import { download, pdfText, waitForRun } from './reports-helpers';
+
+process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
+
+let s: TestServer;
+let trustee: Client;
+let board: Client;
+let worker: RunWorker;
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+let run: any;
+let reportId: string;
+
+const R = () => `/schemes/${s.schemeId}/reports`;
+const squash = (t: string) => t.replace(/\s+/g, ' ');
+
+beforeAll(async () => {
+  s = await startTestServer();
+  trustee = new Client(s.baseUrl);
+  await trustee.signIn('trustee@fernleigh.example');
+  board = new Client(s.baseUrl);
+  await board.signIn('board@fernleigh.example');
+  // The real path: a run requested through the runs API and computed by the queue's worker.
+  const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
+  const options = await s.db.select().from(defaultOptions).where(eq(defaultOptions.schemeId, s.schemeId)).orderBy(defaultOptions.name);
+  const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
+  worker = await startRunWorker({ databaseUrl: s.url, threads: 1, log: () => {} });
+  const created = await trustee.post(`/schemes/${s.schemeId}/runs`, {
+    assumptionSetId: set.id,
+    optionIds: options.slice(0, 2).map((o) => o.id),
+    memberIds: members.slice(1, 3).map((m) => m.id),
+    paths: 600,
+    seed: 2026,
+    riskAversion: 2,
+  });
+  expect(created.status, JSON.stringify(created.body)).toBe(201);
+  run = await waitForRun(trustee, s.schemeId, created.body.id);
+  expect(run.status).toBe('done');
+}, 120_000);
+
+afterAll(async () => {
+  await worker?.stop();
+  await s?.close();
+});
+
+describe('board scenario reports', () => {
+  it('stores a report from a finished run and lists it for the board', async () => {
+    const r = await trustee.post(R(), { runId: run.id, title: 'Default option review 2026' });
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    expect(r.body).toMatchObject({ runId: run.id, title: 'Default option review 2026', riskAversion: 2, draft: false });
+    expect(r.body.sizeBytes).toBeGreaterThan(5000);
+    reportId = r.body.id;
+    const list = await board.get(R());
+    expect(list.status).toBe(200);
+    expect(list.body.reports.map((x: { id: string }) => x.id)).toContain(reportId);
+    const events = await s.db.select().from(auditEvents).where(and(eq(auditEvents.entityId, reportId), eq(auditEvents.action, 'report.created')));
+    expect(events).toHaveLength(1);
+  });
+
+  it("prints the run's figures exactly as the runs API reports them, formatted the same way, with the cautions", async () => {
+    const pdf = await download(board, `${R()}/${reportId}/pdf`);
+    expect(pdf.status).toBe(200);
+    expect(pdf.type).toBe('application/pdf');
+    expect(pdf.body.subarray(0, 5).toString()).toBe('%PDF-');
+    const { text, pages } = await pdfText(pdf.body);
+    expect(pages).toBeGreaterThanOrEqual(5);
+    expect(text).toContain('Default option review 2026');
+    expect(text).toContain('Fernleigh Mills Staff Pension Plan');
+    expect(text).toContain(run.id);
+    expect(text).toContain(`version ${run.assumptionSet.version} (approved)`);
+    expect(text).toContain(`seed ${run.seed}`);
+    expect(text).toContain(`engine version ${run.engineVersion}`);
+    const results = run.result.base.result.results;
+    expect(results).toHaveLength(4);
+    for (const pair of results) {
+      const a = pair.atRetirement;
+      for (const p of run.result.base.result.percentiles as number[]) expect(text, `p${p} of ${pair.optionId}`).toContain(formatMoney(a.percentiles.real[`p${p}`]));
+      expect(text).toContain(formatMoney(a.mean.real));
+      expect(text).toContain(formatMoney(a.certaintyEquivalent.realPot));
+      expect(text).toContain(formatPercent(a.certaintyEquivalent.realAnnualReturn, 2));
+      expect(text).toContain(formatPercent(a.probabilityReachingTarget, 0));
+      expect(text).toContain(formatMoney(a.standardError.real));
+    }
+    for (const b of run.result.base.result.breakEven) {
+      if (b.status === 'found') expect(text).toContain(`equal certainty-equivalent pots at λ = ${formatLambda(b.lambda)}`);
+    }
+    expect(text).toContain(squash(CAUTION_TEXT));
+    expect(text).not.toContain('DRAFT');
+  });
+
+  it('shows in the app the same figures as the file', async () => {
+    const r = await board.get(`${R()}/${reportId}`);
+    expect(r.status).toBe(200);
+    const { text } = await pdfText((await download(board, `${R()}/${reportId}/pdf`)).body);
+    for (const row of r.body.content.comparison) {
+      expect(text).toContain(row.display.percentilesReal.p50);
+      expect(text).toContain(row.display.certaintyEquivalentPot);
+    }
+    for (const sentence of r.body.content.breakEven) expect(text).toContain(squash(sentence));
+    expect(r.body.content.caution).toBe(CAUTION_TEXT);
+  });
+
+  it('exports the comparison table as CSV with exact values', async () => {
+    const csv = await download(board, `${R()}/${reportId}/comparison.csv`);
+    expect(csv.status).toBe(200);
+    expect(csv.type).toMatch(/^text\/csv/);
+    expect(csv.disposition).toMatch(/^attachment; filename=".*\.csv"$/);
+    const rows = parse(csv.body.toString('utf8'), { columns: true, relax_column_count: true }) as Record<string, string>[];
+    const data = rows.filter((r) => r.option);
+    expect(data).toHaveLength(4);
+    const results = run.result.base.result.results;
+    data.forEach((row, i) => {
+      const a = results[i].atRetirement;
+      expect(Number(row.real_pot_p50)).toBe(a.percentiles.real.p50);
+      expect(Number(row.real_pot_p5)).toBe(a.percentiles.real.p5);
+      expect(Number(row.certainty_equivalent_real_pot)).toBe(a.certaintyEquivalent.realPot);
+      expect(Number(row.probability_reaching_target)).toBe(a.probabilityReachingTarget);
+      expect(Number(row.risk_aversion_lambda)).toBe(2);
+    });
+    expect(csv.body.toString('utf8')).toContain(CAUTION_TEXT);
+  });
+
+  it('states certainty equivalents at a chosen λ other than the run’s, from the stored sample', async () => {
+    const r = await trustee.post(R(), { runId: run.id, riskAversion: 5 });
+    expect(r.status).toBe(201);
+    const got = await board.get(`${R()}/${r.body.id}`);
+    const pair = run.result.base.result.results[0];
+    const sample = run.result.base.samples.find((x: { optionId: string; memberId: string }) => x.optionId === pair.optionId && x.memberId === pair.memberId);
+    const expected = certaintyEquivalentPot(sample.realPots, 5);
+    expect(got.body.content.comparison[0].exact.certaintyEquivalentPot).toBe(expected);
+    // More risk-averse ⇒ a lower certainty equivalent than at λ = 2.
+    expect(expected).toBeLessThan(pair.atRetirement.certaintyEquivalent.realPot);
+    const { text } = await pdfText((await download(board, `${R()}/${r.body.id}/pdf`)).body);
+    expect(text).toContain(formatMoney(expected));
+    expect(text).toContain('CE pot (λ = 5)');
+  });
+
+  it('marks a report from draft assumptions as DRAFT on every page', async () => {
+    const { run: draftRun } = await insertFinishedRun(s.db, s.schemeId, { draft: true, paths: 200 });
+    const r = await trustee.post(R(), { runId: draftRun.id });
+    expect(r.status).toBe(201);
+    expect(r.body.draft).toBe(true);
+    const { text, pages } = await pdfText((await download(trustee, `${R()}/${r.body.id}/pdf`)).body);
+    expect(text).toContain(DRAFT_TEXT);
+    expect(text.match(/DRAFT/g)!.length).toBeGreaterThanOrEqual(pages);
+  });
+
+  it('refuses bad requests with the field and reason, and writes nothing', async () => {
+    const count = async () => (await s.db.select({ n: sql<number>`count(*)::int` }).from(reports))[0].n;
+    const before = await count();
+    const bad = await trustee.post(R(), { runId: 'not-an-id', riskAversion: 'high' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.issues.map((i: { path: string }) => i.path).sort()).toEqual(['riskAversion', 'runId']);
+    const extra = await trustee.post(R(), { runId: run.id, colour: 'blue' });
+    expect(extra.status).toBe(400);
+    const unknown = await trustee.post(R(), { runId: '00000000-0000-4000-8000-000000000000' });
+    expect(unknown.status).toBe(404);
+    const other = await insertFinishedRun(s.db, s.secondSchemeId, { paths: 100 });
+    expect((await trustee.post(R(), { runId: other.run.id })).status).toBe(404);
+    expect((await board.post(R(), { runId: run.id })).status).toBe(403);
+    expect(await count()).toBe(before);
+  });
+});
