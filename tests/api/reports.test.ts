@@ -16,7 +16,6 @@ let s: TestServer;
 let trustee: Client;
 let board: Client;
 let worker: RunWorker;
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 let run: any;
 let reportId: string;
 
