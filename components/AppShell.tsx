@@ -1,7 +1,7 @@
-import type { ReactNode } from 'react';
-import { Pressable, ScrollView, Text, View, useWindowDimensions } from 'react-native';
+import { useState, type ReactNode } from 'react';
+import { Pressable, Text, View, useWindowDimensions } from 'react-native';
 import { Link, usePathname } from 'expo-router';
-import { NAV_ITEMS } from '@/constants/navigation';
+import { NAV_ITEMS, PHONE_BAR_SIZE } from '@/constants/navigation';
 import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { ROLE_LABELS, can, type Role } from '@/constants/permissions';
 import { Icon } from './Icon';
@@ -26,6 +26,7 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
   const pathname = usePathname();
+  const [moreOpen, setMoreOpen] = useState(false);
   const items = NAV_ITEMS.filter((i) => can(scheme?.role, i.permission));
 
   const switcher = schemes.length > 1 && (
@@ -87,6 +88,13 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
     );
   }
 
+  const byPhone = [...items].sort((a, b) => (a.phone ?? 99) - (b.phone ?? 99));
+  const barItems = byPhone.length <= PHONE_BAR_SIZE + 1 ? byPhone : byPhone.slice(0, PHONE_BAR_SIZE);
+  const moreItems = byPhone.filter((i) => !barItems.includes(i));
+  const moreActive = moreItems.some((i) => isActive(pathname, i.href));
+  const tab = (active: boolean) => ({ minWidth: 64, minHeight: 56, flex: 1, alignItems: 'center' as const, justifyContent: 'center' as const, paddingHorizontal: space.xs });
+  const tabLabel = (active: boolean) => [type.caption, { color: active ? colors.primary : colors.mutedInk, fontFamily: active ? 'SourceSans3_600SemiBold' : 'SourceSans3_400Regular' }];
+
   return (
     <View style={{ flex: 1, backgroundColor: colors.paper }}>
       <View style={{ flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', paddingHorizontal: space.lg, paddingVertical: space.sm, borderBottomWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface }}>
@@ -103,29 +111,46 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
         </View>
       ) : null}
       <View style={{ flex: 1 }}>{children}</View>
-      <ScrollView
-        horizontal
-        role="navigation"
-        style={{ flexGrow: 0, borderTopWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface }}
-        contentContainerStyle={{ flexGrow: 1, justifyContent: 'space-around' }}
-      >
-        {items.map((item) => {
+      {moreOpen ? (
+        <View role="navigation" aria-label="More" testID="more-menu" style={{ position: 'absolute', left: 0, right: 0, bottom: 57, backgroundColor: colors.surface, borderTopWidth: 1, borderColor: colors.rule, paddingVertical: space.sm, shadowColor: '#000', shadowOpacity: 0.12, shadowRadius: 12 }}>
+          {moreItems.map((item) => {
+            const active = isActive(pathname, item.href);
+            return (
+              <Link key={item.href} href={item.href as never} asChild>
+                <Pressable
+                  testID={`nav-${item.label}`}
+                  accessibilityRole="link"
+                  accessibilityState={{ selected: active }}
+                  onPress={() => setMoreOpen(false)}
+                  style={{ flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: MIN_TOUCH, paddingHorizontal: space.lg }}
+                >
+                  <Icon name={item.icon} color={active ? colors.primary : colors.ink} />
+                  <Text style={[type.label, { fontSize: 16, color: active ? colors.primary : colors.ink }]}>{item.label}</Text>
+                </Pressable>
+              </Link>
+            );
+          })}
+        </View>
+      ) : null}
+      <View role="navigation" style={{ flexDirection: 'row', borderTopWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface }}>
+        {barItems.map((item) => {
           const active = isActive(pathname, item.href);
           return (
             <Link key={item.href} href={item.href as never} asChild>
-              <Pressable
-                testID={`nav-${item.label}`}
-                accessibilityRole="link"
-                accessibilityState={{ selected: active }}
-                style={{ minWidth: 72, minHeight: 56, alignItems: 'center', justifyContent: 'center', paddingHorizontal: space.sm }}
-              >
+              <Pressable testID={`nav-${item.label}`} accessibilityRole="link" accessibilityState={{ selected: active }} onPress={() => setMoreOpen(false)} style={tab(active)}>
                 <Icon name={item.icon} color={active ? colors.primary : colors.mutedInk} />
-                <Text style={[type.caption, { color: active ? colors.primary : colors.mutedInk, fontFamily: active ? 'SourceSans3_600SemiBold' : 'SourceSans3_400Regular' }]}>{item.label}</Text>
+                <Text style={tabLabel(active)}>{item.label}</Text>
               </Pressable>
             </Link>
           );
         })}
-      </ScrollView>
+        {moreItems.length ? (
+          <Pressable testID="nav-More" accessibilityRole="button" accessibilityState={{ expanded: moreOpen }} onPress={() => setMoreOpen((o) => !o)} style={tab(moreActive || moreOpen)}>
+            <Icon name="more" color={moreActive || moreOpen ? colors.primary : colors.mutedInk} />
+            <Text style={tabLabel(moreActive || moreOpen)}>More</Text>
+          </Pressable>
+        ) : null}
+      </View>
     </View>
   );
 }

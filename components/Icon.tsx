@@ -1,7 +1,7 @@
 import Svg, { Path, Circle, Rect } from 'react-native-svg';
 import { colors } from '@/constants/theme';
 
-export type IconName = 'home' | 'chart' | 'sliders' | 'path' | 'people' | 'person' | 'log' | 'document' | 'signout' | 'upload';
+export type IconName = 'home' | 'chart' | 'sliders' | 'path' | 'people' | 'person' | 'log' | 'document' | 'signout' | 'upload' | 'pie' | 'card' | 'more';
 
 /** Small line icons drawn with react-native-svg (24-unit grid, 1.8 stroke). */
 export function Icon({ name, size = 22, color = colors.ink }: { name: IconName; size?: number; color?: string }) {
@@ -33,6 +33,21 @@ export function Icon({ name, size = 22, color = colors.ink }: { name: IconName; 
       )}
       {name === 'signout' && <Path d="M14 4h5v16h-5M10 8l-4 4 4 4M6 12h10" {...p} />}
       {name === 'upload' && <Path d="M12 16V4M7 9l5-5 5 5M4 20h16" {...p} />}
+      {name === 'more' && (
+        <>
+          <Circle cx={5} cy={12} r={1.4} {...p} />
+          <Circle cx={12} cy={12} r={1.4} {...p} />
+          <Circle cx={19} cy={12} r={1.4} {...p} />
+        </>
+      )}
+      {name === 'pie' && <Path d="M12 3a9 9 0 1 0 9 9h-9zM15 3.5A9 9 0 0 1 20.5 9H15z" {...p} />}
+      {name === 'card' && (
+        <>
+          <Rect x={3} y={5} width={18} height={14} rx={2} {...p} />
+          <Circle cx={8.5} cy={11} r={2} {...p} />
+          <Path d="M5.5 16c.6-1.6 1.7-2.4 3-2.4s2.4.8 3 2.4M14 10h4M14 13.5h4" {...p} />
+        </>
+      )}
     </Svg>
   );
 }

@@ -2,16 +2,21 @@ import type { IconName } from '@/components/Icon';
 import type { Permission } from './permissions';
 
 /** The signed-in menu. Each entry shows only to roles the permission table allows. */
-export type NavItem = { href: string; label: string; icon: IconName; permission: Permission };
+/**
+ * `phone`: the place in the phone's bottom bar (lower first). The bar shows the
+ * first four entries a role may see; the rest sit under "More".
+ */
+export type NavItem = { href: string; label: string; icon: IconName; permission: Permission; phone?: number };
+export const PHONE_BAR_SIZE = 4;
 
 export const NAV_ITEMS: NavItem[] = [
-  { href: '/', label: 'Overview', icon: 'home', permission: 'scheme:read' },
+  { href: '/', label: 'Overview', icon: 'home', permission: 'scheme:read', phone: 0 },
   { href: '/funds', label: 'Funds', icon: 'pie', permission: 'funds:read' },
   { href: '/assumptions', label: 'Assumptions', icon: 'sliders', permission: 'assumptions:read' },
   { href: '/options', label: 'Options', icon: 'path', permission: 'options:read' },
   { href: '/members', label: 'Members', icon: 'card', permission: 'members:read' },
-  { href: '/projections', label: 'Projections', icon: 'chart', permission: 'runs:read' },
-  { href: '/people', label: 'People', icon: 'people', permission: 'people:manage' },
+  { href: '/projections', label: 'Projections', icon: 'chart', permission: 'runs:read', phone: 1 },
+  { href: '/people', label: 'People', icon: 'people', permission: 'people:manage', phone: 2 },
   { href: '/activity', label: 'Activity', icon: 'log', permission: 'audit:read' },
   { href: '/account', label: 'Account', icon: 'person', permission: 'scheme:read' },
 ];

@@ -53,6 +53,17 @@ describe('signed-in menus follow the permission table', () => {
       const box = await b.page.getByRole('navigation').first().boundingBox();
       expect(box!.y).toBeGreaterThan(PHONE.height / 2);
       await screenshot(b.page, 'overview-actuary-phone');
+      // The phone bar holds four entries; the rest open from "More".
+      const bar = await menuLabels(b.page);
+      expect(bar.length).toBeLessThanOrEqual(5);
+      await b.page.getByTestId('nav-More').click();
+      const more = b.page.getByTestId('more-menu');
+      await more.waitFor();
+      await expect(more.getByRole('link').count()).resolves.toBeGreaterThan(0);
+      await screenshot(b.page, 'more-menu-actuary-phone');
+      await more.getByRole('link', { name: 'Account' }).click();
+      await b.page.getByRole('heading', { name: 'My account' }).waitFor();
+      expect(await more.count()).toBe(0);
     } finally {
       await b.close();
     }
