@@ -19,7 +19,6 @@ let comms: Client;
 let runWorker: RunWorker;
 let background: BackgroundWorkers;
 let workerDb: ReturnType<typeof createDb>;
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 let run: any;
 let midCareer: { id: string; label: string };
 
