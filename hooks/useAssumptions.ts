@@ -147,3 +147,52 @@ export function contentOf(set: AssumptionSet): AssumptionContent {
     correlations: set.correlations.map((r) => r.slice()),
   };
 }
+
+/**
+ * A draft's content with suggested figures adopted: annual return and volatility for the chosen
+ * funds (funds new to the set join with no charge) and, if asked, the correlations between them.
+ */
+export function mergeSuggestion(set: AssumptionSet, s: HistorySuggestion, fundIds: string[], adoptCorrelations: boolean): AssumptionContent {
+  const c = contentOf(set);
+  const round = (x: number) => Number(x.toFixed(6));
+  for (const fid of fundIds) {
+    const sf = s.funds.find((f) => f.fundId === fid);
+    if (!sf) continue;
+    const at = c.funds.findIndex((f) => f.fundId === fid);
+    if (at >= 0) c.funds[at] = { ...c.funds[at], expectedReturn: round(sf.annualReturn), volatility: round(sf.annualVolatility) };
+    else {
+      c.funds.push({ fundId: fid, expectedReturn: round(sf.annualReturn), volatility: round(sf.annualVolatility), annualCharge: 0 });
+      c.correlations = c.correlations.map((r) => [...r, 0]);
+      c.correlations.push([...new Array<number>(c.funds.length - 1).fill(0), 1]);
+    }
+  }
+  if (adoptCorrelations) {
+    const idx = (fid: string) => c.funds.findIndex((f) => f.fundId === fid);
+    s.funds.forEach((a, i) =>
+      s.funds.forEach((b, j) => {
+        if (i === j || !fundIds.includes(a.fundId) || !fundIds.includes(b.fundId)) return;
+        c.correlations[idx(a.fundId)][idx(b.fundId)] = s.correlations[i][j];
+      }),
+    );
+  }
+  return c;
+}
+
+/**
+ * Adopts suggestions into a draft: the given draft, or a new one copied from `fromId`.
+ * Returns the saved draft.
+ */
+export function useAdoptSuggestion() {
+  const schemeId = useSchemeId();
+  const invalidate = useInvalidate();
+  return useMutation({
+    mutationFn: async ({ draftId, fromId, suggestion, fundIds, correlations }: { draftId?: string; fromId?: string; suggestion: HistorySuggestion; fundIds: string[]; correlations: boolean }) => {
+      const target = draftId
+        ? await api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets/${draftId}`)
+        : await api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets/${fromId}/drafts`, { method: 'POST' });
+      const content = mergeSuggestion(target, suggestion, fundIds, correlations);
+      return api<AssumptionSet>(`/schemes/${schemeId}/assumption-sets/${target.id}`, { method: 'PUT', body: content });
+    },
+    onSettled: invalidate,
+  });
+}

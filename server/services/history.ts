@@ -55,7 +55,8 @@ export async function suggestFromHistory(buffer: Buffer, fileName: string, schem
         const key = h.trim().toLowerCase();
         const fund = byName.get(key);
         if (!h.trim()) problems.add(1, `column ${index + 1}`, 'has no heading; head each column with a fund name');
-        else if (!fund) problems.add(1, h, `is not a fund of this scheme (headings must match fund names: ${schemeFunds.map((f) => f.name).join(', ')})`);
+        else if (!fund)
+          problems.add(1, h, schemeFunds.length ? `is not a fund of this scheme (headings must match fund names: ${schemeFunds.map((f) => f.name).join(', ')})` : 'is not a fund of this scheme, which has no funds yet');
         else if (seen.has(key)) problems.add(1, h, 'appears twice');
         else {
           seen.add(key);
