@@ -31,7 +31,7 @@ function WeightInput({ value, label, onCommit, colour }: { value: number; label:
   return (
     <View style={{ flexDirection: 'row', alignItems: 'center', gap: space.sm, minHeight: MIN_TOUCH }}>
       <View style={{ width: 10, height: 28, borderRadius: 2, backgroundColor: colour }} />
-      <Text style={[type.body, { flex: 1, color: colors.ink }]} numberOfLines={1}>
+      <Text style={[type.body, { flex: 1, color: colors.ink, lineHeight: 20 }]} numberOfLines={2}>
         {label}
       </Text>
       <TextInput

@@ -176,9 +176,7 @@ export default function AssumptionSetScreen() {
       actions={<StatusBadge status={set.status} />}
     >
       {set.status === 'approved' ? (
-        <Notice tone="success">
-          Approved by {set.approvedBy ?? 'a former trustee'} on {day(set.approvedAt)}. This version can no longer change; a change starts a new draft copied from it.
-        </Notice>
+        <Notice tone="success">{`Approved by ${set.approvedBy ?? 'a former trustee'} on ${day(set.approvedAt)}. This version can no longer change; a change starts a new draft copied from it.`}</Notice>
       ) : (
         <Notice tone="warning">Draft: not yet approved. Results that use it are marked as draft.</Notice>
       )}
