@@ -84,7 +84,7 @@ function Illustrative({ currency }: { currency: string }) {
       {editable ? (
         <Card title={editing ? `Change ${editing.label}` : 'Add an illustrative member'}>
           {save.error && save.error instanceof Error && !Object.keys(EMPTY).some((k) => fieldError(save.error, k)) ? <Notice tone="error">{save.error.message}</Notice> : null}
-          <View style={{ flexDirection: width >= WIDE_BREAKPOINT ? 'row' : 'column', flexWrap: 'wrap', columnGap: space.lg }}>
+          <View style={width >= WIDE_BREAKPOINT ? { flexDirection: 'row', flexWrap: 'wrap', columnGap: space.lg } : undefined}>
             {f('label', 'Label')}
             {f('age', 'Age')}
             {f('retirementAge', 'Retirement age')}
