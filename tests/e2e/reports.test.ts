@@ -13,7 +13,6 @@ process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
 
 let s: TestServer;
 let worker: RunWorker;
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 let run: any;
 let reportTitle: string;
 
