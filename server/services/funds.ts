@@ -16,7 +16,8 @@ export async function listFunds(db: DbOrTx, schemeId: string): Promise<FundRow[]
  * `paths[i]` is the request path of `ids[i]`.
  */
 export async function assertSchemeFunds(db: DbOrTx, schemeId: string, ids: string[], paths: string[]): Promise<void> {
-  const unique = [...new Set(ids)];
+  // Only well-formed ids can name a fund; anything else is simply unknown (and must not reach a uuid column).
+  const unique = [...new Set(ids)].filter((id) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id));
   const found = unique.length ? await db.select({ id: funds.id }).from(funds).where(and(eq(funds.schemeId, schemeId), inArray(funds.id, unique))) : [];
   const known = new Set(found.map((f) => f.id));
   const issues: FieldIssue[] = ids.flatMap((id, i) => (known.has(id) ? [] : [{ path: paths[i], message: `is not a fund of this scheme (${id})` }]));
