@@ -1,17 +1,45 @@
-import { Pressable, Text } from 'react-native';
+import type { ReactNode } from 'react';
+import { Pressable, Text, View, useWindowDimensions } from 'react-native';
 import { Link } from 'expo-router';
 import { Icon } from '@/components/Icon';
-import { colors } from '@/constants/theme';
-import { Card, Screen, styles } from '@/components/ui';
+import { Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { SchemePicker } from '@/components/SchemePicker';
 import { ROLE_LABELS, can } from '@/constants/permissions';
-import { NAV_ITEMS } from '@/constants/navigation';
+import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
+import { useOverview } from '@/hooks/useOverview';
 import { useSession } from '@/hooks/useSession';
+
+const STATUS_TEXT = { queued: 'Waiting to start', running: 'Running', done: 'Finished', failed: 'Failed' } as const;
+const STATUS_COLOUR = { queued: colors.mutedInk, running: colors.accent, done: colors.success, failed: colors.danger } as const;
+
+const day = (iso: string) => new Date(iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
+
+function Row({ href, children, testID }: { href: string; children: ReactNode; testID?: string }) {
+  return (
+    <Link href={href as never} asChild>
+      <Pressable testID={testID} accessibilityRole="link" style={{ minHeight: MIN_TOUCH, justifyContent: 'center', paddingVertical: space.xs, borderTopWidth: 1, borderColor: colors.rule }}>
+        {children}
+      </Pressable>
+    </Link>
+  );
+}
+
+function Figure({ label, value }: { label: string; value: number | null }) {
+  if (value === null) return null;
+  return (
+    <View style={{ minWidth: 120, flexGrow: 1 }}>
+      <Text style={[type.heading, { color: colors.ink, fontVariant: ['tabular-nums'] }]}>{value.toLocaleString('en-GB')}</Text>
+      <Text style={styles.muted}>{label}</Text>
+    </View>
+  );
+}
 
 export default function Overview() {
   const { data: me } = useSession();
   const { scheme, schemes, setSchemeId } = useCurrentScheme();
+  const { width } = useWindowDimensions();
+  const overview = useOverview(scheme?.id);
   if (!scheme) {
     return (
       <Screen title="No scheme yet">
@@ -21,24 +49,95 @@ export default function Overview() {
       </Screen>
     );
   }
-  const places = NAV_ITEMS.filter((i) => i.href !== '/' && can(scheme.role, i.permission));
+  const o = overview.data;
+  const twoColumns = width >= WIDE_BREAKPOINT + 240;
+  const column = { flexBasis: twoColumns ? '48%' : '100%', flexGrow: 1 } as const;
   return (
     <Screen title={scheme.name} subtitle={`Signed in as ${me?.user.displayName} · ${ROLE_LABELS[scheme.role]}`}>
-      <Card title="Your work here">
-        {places.map((p) => (
-          <Link key={p.href} href={p.href as never} asChild>
-            <Pressable accessibilityRole="link" style={{ flexDirection: 'row', alignItems: 'center', gap: 12, minHeight: 44 }}>
-              <Icon name={p.icon} color={colors.primary} />
-              <Text style={[styles.body, { color: colors.primary }]}>{p.label}</Text>
-            </Pressable>
-          </Link>
-        ))}
-      </Card>
+      {overview.isLoading ? <Loading /> : null}
+      {overview.error ? <Notice tone="error">{overview.error.message}</Notice> : null}
+      {o ? (
+        <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.lg }}>
+          <Card title="The scheme in Keelson" style={column}>
+            <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.lg }}>
+              <Figure label="funds" value={o.counts.funds} />
+              <Figure label="default options" value={o.counts.options} />
+              <Figure label="illustrative members" value={o.counts.illustrativeMembers} />
+              <Figure label="membership records" value={o.counts.schemeMembers} />
+            </View>
+          </Card>
+          {o.assumptions ? (
+            <Card title="Assumptions" style={column}>
+              {o.assumptions.latestApproved ? (
+                <Row href={`/assumptions/${o.assumptions.latestApproved.id}`} testID="overview-approved-set">
+                  <Text style={styles.body}>
+                    Version {o.assumptions.latestApproved.version}, set at {day(o.assumptions.latestApproved.setAt)}
+                  </Text>
+                  <Text style={styles.muted}>
+                    Approved{o.assumptions.latestApproved.approvedBy ? ` by ${o.assumptions.latestApproved.approvedBy}` : ''}
+                    {o.assumptions.latestApproved.approvedAt ? ` on ${day(o.assumptions.latestApproved.approvedAt)}` : ''}
+                  </Text>
+                </Row>
+              ) : (
+                <Text style={styles.body}>No approved assumptions yet.</Text>
+              )}
+              {o.assumptions.drafts.map((d) => (
+                <Row key={d.id} href={`/assumptions/${d.id}`}>
+                  <Text style={[styles.body, { color: colors.accent }]}>Draft version {d.version} — not yet approved</Text>
+                  <Text style={styles.muted}>
+                    {d.createdBy ? `Started by ${d.createdBy}, ` : ''}last changed {day(d.updatedAt)}
+                    {can(scheme.role, 'assumptions:approve') ? ' · awaiting a trustee' : ''}
+                  </Text>
+                </Row>
+              ))}
+            </Card>
+          ) : null}
+          {o.runs ? (
+            <Card title="Latest projections" style={column}>
+              {o.runs.length === 0 ? <Text style={styles.body}>No projections yet.</Text> : null}
+              {o.runs.map((r) => (
+                <Row key={r.id} href={`/projections/${r.id}`}>
+                  <Text style={styles.body}>
+                    {day(r.createdAt)} · {r.paths.toLocaleString('en-GB')} paths{r.assumptionsDraft ? ' · DRAFT assumptions' : ''}
+                  </Text>
+                  <Text style={[type.label, { color: STATUS_COLOUR[r.status] }]}>
+                    {STATUS_TEXT[r.status]}
+                    {r.status === 'running' ? ` · ${Math.round(r.progress * 100)}%` : ''}
+                  </Text>
+                </Row>
+              ))}
+              {can(scheme.role, 'runs:create') ? (
+                <Row href="/projections">
+                  <Text style={[type.label, { color: colors.primary, fontSize: 16 }]}>Start a new comparison</Text>
+                </Row>
+              ) : null}
+            </Card>
+          ) : null}
+          {o.reports ? (
+            <Card title="Board reports" style={column}>
+              {o.reports.length === 0 ? <Text style={styles.body}>No reports yet.</Text> : null}
+              {o.reports.map((r) => (
+                <Row key={r.id} href={`/reports/${r.id}`}>
+                  <Text style={styles.body}>{r.title}</Text>
+                  <Text style={styles.muted}>
+                    {day(r.createdAt)}
+                    {r.draft ? ' · on DRAFT assumptions' : ''}
+                  </Text>
+                </Row>
+              ))}
+            </Card>
+          ) : null}
+        </View>
+      ) : null}
       {schemes.length > 1 ? (
         <Card title="Your schemes">
           <SchemePicker schemes={schemes} currentId={scheme.id} onChange={setSchemeId} />
         </Card>
       ) : null}
+      <View style={{ flexDirection: 'row', alignItems: 'center', gap: space.sm }}>
+        <Icon name="document" size={18} color={colors.mutedInk} />
+        <Text style={styles.muted}>Projections in Keelson are illustrations under stated assumptions, not guarantees or advice.</Text>
+      </View>
     </Screen>
   );
 }

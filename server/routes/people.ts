@@ -8,6 +8,7 @@ import { accessTokens, auditEvents, schemeRoles, users } from '../../db/schema';
 import { ROLES } from '../../constants/permissions';
 import { audit } from '../services/audit';
 import { createToken, emailKey } from '../services/accounts';
+import { schemeOverview } from '../services/overview';
 import { linkUrl } from './auth';
 
 const InviteBody = z.object({ email: z.string().trim().email('is not an e-mail address').max(254, 'is too long'), role: z.enum(ROLES) });
@@ -21,6 +22,10 @@ export function peopleRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'get', path: '', access: 'scheme:read' }, async (req, res) => {
     res.json(req.scheme);
+  });
+
+  defineRoute(r, M, { method: 'get', path: '/overview', access: 'scheme:read' }, async (req, res) => {
+    res.json(await schemeOverview(ctx.db, req.scheme!));
   });
 
   defineRoute(r, M, { method: 'get', path: '/people', access: 'people:manage' }, async (req, res) => {

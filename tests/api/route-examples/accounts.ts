@@ -10,6 +10,7 @@ export const examples: Examples = {
   'GET /health': () => ({}),
   'GET /auth/me': () => ({}),
   'GET /schemes/:schemeId': (fx) => ({ params: { schemeId: fx.schemeId } }),
+  'GET /schemes/:schemeId/overview': (fx) => ({ params: { schemeId: fx.schemeId } }),
   'GET /schemes/:schemeId/people': (fx) => ({ params: { schemeId: fx.schemeId } }),
   'POST /schemes/:schemeId/invitations': (fx) => ({ params: { schemeId: fx.schemeId }, body: { email: `new-${fx.nonce}@example.org`, role: 'trustee' } }),
   'PATCH /schemes/:schemeId/people/:userId': async (fx) => ({ params: { schemeId: fx.schemeId, userId: (await fx.makeUser('trustee')).id }, body: { role: 'board' } }),
