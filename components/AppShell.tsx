@@ -1,7 +1,7 @@
 import { useState, type ReactNode } from 'react';
 import { Pressable, Text, View, useWindowDimensions } from 'react-native';
 import { Link, usePathname } from 'expo-router';
-import { NAV_ITEMS, PHONE_BAR_SIZE } from '@/constants/navigation';
+import { NAV_ITEMS, PHONE_BAR_SIZE, type NavItem } from '@/constants/navigation';
 import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { ROLE_LABELS, can, type Role } from '@/constants/permissions';
 import { Icon } from './Icon';
@@ -19,6 +19,34 @@ type Props = {
 
 function isActive(pathname: string, href: string) {
   return href === '/' ? pathname === '/' : pathname === href || pathname.startsWith(`${href}/`);
+}
+
+/** One menu entry as a full-width row: on the spruce side navigation ("inverse") or in the phone's More panel ("plain"). */
+function MenuRow({ item, active, tone, onPress }: { item: NavItem; active: boolean; tone: 'inverse' | 'plain'; onPress?: () => void }) {
+  const inverse = tone === 'inverse';
+  const fg = active ? colors.primary : inverse ? colors.paper : colors.ink;
+  return (
+    <Link href={item.href as never} asChild>
+      <Pressable
+        testID={`nav-${item.label}`}
+        accessibilityRole="link"
+        accessibilityState={{ selected: active }}
+        onPress={onPress}
+        style={{
+          flexDirection: 'row',
+          alignItems: 'center',
+          gap: space.md,
+          minHeight: MIN_TOUCH,
+          paddingHorizontal: inverse ? space.md : space.lg,
+          borderRadius: inverse ? 8 : 0,
+          backgroundColor: inverse && active ? colors.paper : 'transparent',
+        }}
+      >
+        <Icon name={item.icon} color={fg} />
+        <Text style={[type.label, { fontSize: 16, color: fg }]}>{item.label}</Text>
+      </Pressable>
+    </Link>
+  );
 }
 
 /** Phone first: bottom navigation under 768 px; a side navigation from 768 px. */
@@ -58,22 +86,9 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
             </View>
           ) : null}
           <View style={{ gap: 2 }}>
-            {items.map((item) => {
-              const active = isActive(pathname, item.href);
-              return (
-                <Link key={item.href} href={item.href as never} asChild>
-                  <Pressable
-                    testID={`nav-${item.label}`}
-                    accessibilityRole="link"
-                    accessibilityState={{ selected: active }}
-                    style={{ flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: MIN_TOUCH, paddingHorizontal: space.md, borderRadius: 8, backgroundColor: active ? colors.paper : 'transparent' }}
-                  >
-                    <Icon name={item.icon} color={active ? colors.primary : colors.paper} />
-                    <Text style={[type.label, { fontSize: 16, color: active ? colors.primary : colors.paper }]}>{item.label}</Text>
-                  </Pressable>
-                </Link>
-              );
-            })}
+            {items.map((item) => (
+              <MenuRow key={item.href} item={item} active={isActive(pathname, item.href)} tone="inverse" />
+            ))}
           </View>
           {switcher}
           <View style={{ flex: 1 }} />
@@ -113,23 +128,9 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
       <View style={{ flex: 1 }}>{children}</View>
       {moreOpen ? (
         <View role="navigation" aria-label="More" testID="more-menu" style={{ position: 'absolute', left: 0, right: 0, bottom: 57, backgroundColor: colors.surface, borderTopWidth: 1, borderColor: colors.rule, paddingVertical: space.sm, shadowColor: '#000', shadowOpacity: 0.12, shadowRadius: 12 }}>
-          {moreItems.map((item) => {
-            const active = isActive(pathname, item.href);
-            return (
-              <Link key={item.href} href={item.href as never} asChild>
-                <Pressable
-                  testID={`nav-${item.label}`}
-                  accessibilityRole="link"
-                  accessibilityState={{ selected: active }}
-                  onPress={() => setMoreOpen(false)}
-                  style={{ flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: MIN_TOUCH, paddingHorizontal: space.lg }}
-                >
-                  <Icon name={item.icon} color={active ? colors.primary : colors.ink} />
-                  <Text style={[type.label, { fontSize: 16, color: active ? colors.primary : colors.ink }]}>{item.label}</Text>
-                </Pressable>
-              </Link>
-            );
-          })}
+          {moreItems.map((item) => (
+            <MenuRow key={item.href} item={item} active={isActive(pathname, item.href)} tone="plain" onPress={() => setMoreOpen(false)} />
+          ))}
         </View>
       ) : null}
       <View role="navigation" style={{ flexDirection: 'row', borderTopWidth: 1, borderColor: colors.rule, backgroundColor: colors.surface }}>

@@ -1,12 +1,9 @@
 #!/usr/bin/env bash
-# npm run dev: API server in watch mode on :8080 and Expo's web dev server on :8081 (which proxies nothing:
-# open http://127.0.0.1:8080 for the built app, or :8081 with EXPO_PUBLIC_API_BASE=http://127.0.0.1:8080).
+# npm run dev: the API server in watch mode on :8080 and Expo's web dev server on :8081
+# (open http://127.0.0.1:8081; metro.config.js passes /api/* through to :8080).
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
-ensure_node_modules
-ensure_database
-npx tsx db/migrate.ts
-npx tsx db/seed.ts
+prepare_app
 export NODE_ENV=development PORT="${PORT:-8080}"
 npx tsx watch server/index.ts &
 API=$!

@@ -50,3 +50,11 @@ ensure_chromium() {
     exit 1
   fi
 }
+
+# Packages, database, migrations and (when empty) the demo scheme: what start and dev both need.
+prepare_app() {
+  ensure_node_modules
+  ensure_database
+  npx tsx db/migrate.ts
+  npx tsx db/seed.ts
+}

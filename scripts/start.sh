@@ -2,10 +2,7 @@
 # npm start: prepare everything on a fresh clone, then serve API and web app on one port.
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
-ensure_node_modules
-ensure_database
-npx tsx db/migrate.ts
-npx tsx db/seed.ts
+prepare_app
 ensure_web_build
 export NODE_ENV="${NODE_ENV:-production}"
 export PORT="${PORT:-8080}"
