@@ -57,6 +57,13 @@ describe('comparing default options', () => {
 
       // Phone size: the same run, cards stacked.
       const url = page.url();
+
+      // The board's λ carries over into a board report made from this screen.
+      await page.getByRole('button', { name: 'Make a board report at λ = 8' }).first().click();
+      await page.getByText('Make a report').waitFor();
+      await page.getByTestId('make-report').click();
+      await page.getByText('Certainty equivalents at risk aversion λ = 8').waitFor({ timeout: 60_000 });
+
       const phone = await launch(PHONE);
       try {
         await signIn(phone.page, s.baseUrl, 'trustee@fernleigh.example');

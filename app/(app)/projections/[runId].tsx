@@ -47,6 +47,8 @@ export default function RunView() {
 
 function Results({ run, currency }: { run: RunDetail; currency: string }) {
   const result = run.result!;
+  const { can } = useCurrentScheme();
+  const router = useRouter();
   const [lambda, setLambda] = useState(run.riskAversion);
   const [memberId, setMemberId] = useState(run.members[0].id);
   const [nominal, setNominal] = useState(false);
@@ -101,6 +103,11 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
           </Text>
         ) : null}
         <ComparisonTable rows={ranked} currency={currency} lambda={lambda} colorOf={colorOf} />
+        {can('reports:create') ? (
+          <View style={styles.row}>
+            <Button kind="secondary" label={`Make a board report at λ = ${lambda}`} onPress={() => router.push(`/reports?run=${run.id}&lambda=${lambda}`)} />
+          </View>
+        ) : null}
         <Text style={styles.muted}>
           Pots at retirement in today&apos;s money, net of charges. ± is one Monte Carlo standard error. The certainty-equivalent pot is the sure amount the board would value as highly as the spread of outcomes at this λ
           {result.sample.kind === 'quantiles' ? `; away from the run's λ (${run.riskAversion}) it is computed from ${result.sample.size.toLocaleString('en-GB')} stored quantiles of the ${run.paths.toLocaleString('en-GB')} outcomes` : ''}.

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { Pressable, Text, View } from 'react-native';
-import { Link, useRouter } from 'expo-router';
+import { Link, useLocalSearchParams, useRouter } from 'expo-router';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
 import { Choices } from '@/components/Choices';
 import { CautionNotice } from '@/components/CautionNotice';
@@ -53,9 +53,11 @@ function NewReport({ schemeId }: { schemeId: string }) {
   const runs = useFinishedRuns(schemeId);
   const create = useCreateReport(schemeId);
   const router = useRouter();
-  const [runId, setRunId] = useState<string | null>(null);
+  // A run's comparison screen links here with the run and the λ the board was looking at.
+  const from = useLocalSearchParams<{ run?: string; lambda?: string }>();
+  const [runId, setRunId] = useState<string | null>(from.run ?? null);
   const [title, setTitle] = useState('');
-  const [lambda, setLambda] = useState('');
+  const [lambda, setLambda] = useState(from.lambda ?? '');
   const chosen = runs.data?.find((r) => r.id === runId);
   const submit = () => {
     const riskAversion = lambda.trim() === '' ? undefined : Number(lambda);
