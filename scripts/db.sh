@@ -41,7 +41,7 @@ ensure_postgres() {
 
 # PostgreSQL refuses to run as root: run its tools as the postgres user then.
 as_pg() {
-  if [[ "$(id -u)" == "0" ]]; then runuser -u postgres -- "$@"; else "$@"; fi
+  if [[ "$(id -u)" == "0" ]]; then (cd / && runuser -u postgres -- "$@"); else "$@"; fi
 }
 
 is_running() {
@@ -54,8 +54,23 @@ port_busy() {
 
 url() { echo "postgres://$PGUSER_NAME@127.0.0.1:$PORT/$DB"; }
 
+# As root, PostgreSQL runs as the postgres user, which must be able to reach the data folder.
+# A checkout under a private home folder (e.g. /root) is not reachable: the cluster then lives in
+# /var/lib/keelson-pg/<checkout hash>, and .pgdata in the project is a link to it.
+place_data() {
+  [[ "$(id -u)" == "0" && -z "${KEELSON_PG_DIR:-}" ]] || return 0
+  if [[ -L "$DATA" ]]; then DATA="$(readlink -f "$DATA")"; return 0; fi
+  if [[ -d "$DATA" ]] || runuser -u postgres -- test -x "$ROOT"; then return 0; fi
+  local outside="/var/lib/keelson-pg/$(echo -n "$ROOT" | sha1sum | cut -c1-12)"
+  mkdir -p "$outside" && chown postgres:postgres "$outside" && chmod 700 "$outside"
+  ln -sfn "$outside" "$DATA"
+  echo "keelson: the postgres user cannot reach $ROOT; the cluster lives in $outside (linked from .pgdata)" >&2
+  DATA="$outside"
+}
+
 start() {
   ensure_postgres
+  place_data
   if [[ ! -f "$DATA/PG_VERSION" ]]; then
     mkdir -p "$DATA"
     if [[ "$(id -u)" == "0" ]]; then chown postgres:postgres "$DATA"; fi
@@ -89,13 +104,14 @@ start() {
 
 stop() {
   PGBIN="$(find_bin)" || { echo "keelson: PostgreSQL not installed; nothing to stop" >&2; return 0; }
+  if [[ -L "$DATA" ]]; then DATA="$(readlink -f "$DATA")"; fi
   if is_running; then as_pg "$PGBIN/pg_ctl" -D "$DATA" -m fast -w stop >/dev/null; echo "keelson: database stopped"; else echo "keelson: database not running"; fi
 }
 
 case "${1:-}" in
   start) start; echo "keelson: database ready at $(url)" >&2 ;;
   stop) stop ;;
-  status) PGBIN="$(find_bin)" && is_running && echo running || echo stopped ;;
+  status) PGBIN="$(find_bin)" && { [[ -L "$DATA" ]] && DATA="$(readlink -f "$DATA")"; true; } && is_running && echo running || echo stopped ;;
   url) url ;;
   *) echo "usage: scripts/db.sh start|stop|status|url" >&2; exit 64 ;;
 esac
