@@ -5,6 +5,7 @@
  *
  *   npx tsx scripts/bench-runs.ts
  */
+import { monitorEventLoopDelay } from 'node:perf_hooks';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { randomBytes } from 'node:crypto';
@@ -66,6 +67,9 @@ async function main() {
     const members = await db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, schemeId));
     const body = { assumptionSetId: set.id, optionIds: options.map((o) => o.id), memberIds: members.map((m) => m.id), paths: PATHS, seed: 2026, riskAversion: 2 };
 
+    // The worker shares this process with the API, as with `npm start`: record how long the event loop stalls.
+    const loop = monitorEventLoopDelay({ resolution: 10 });
+    loop.enable();
     const t0 = performance.now();
     const res = await fetch(`${base}/schemes/${schemeId}/runs`, {
       method: 'POST',
@@ -82,6 +86,7 @@ async function main() {
       await new Promise((r) => setTimeout(r, 20));
     }
     const t1 = performance.now();
+    loop.disable();
     if (row.status !== 'done') throw new Error(`run failed: ${row.error}`);
     const [{ size }] = (await pool.query(`select pg_column_size(result) as size from projection_runs where id = $1`, [id])).rows;
     console.log(`bench-runs: ${options.length} options × ${members.length} members × ${PATHS.toLocaleString('en-GB')} paths`);
@@ -89,6 +94,7 @@ async function main() {
     console.log(`  simulation (worker start → stored): ${(row.finishedAt!.getTime() - row.startedAt!.getTime()).toFixed(0)} ms`);
     console.log(`  run requested → results stored:     ${(t1 - t0).toFixed(0)} ms`);
     console.log(`  stored result: ${(Number(size) / 1024).toFixed(0)} KiB (compressed by PostgreSQL)`);
+    console.log(`  longest event-loop stall in the API process meanwhile: ${(loop.max / 1e6).toFixed(0)} ms (p99 ${(loop.percentile(99) / 1e6).toFixed(0)} ms)`);
   } finally {
     for (const c of cleanup) await c().catch(() => undefined);
     await admin(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`);
