@@ -2,54 +2,24 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from './api';
 import { useCurrentScheme } from './useCurrentScheme';
 import { fileForm, type PickedFile } from './upload';
+import type { Wire } from '@/types/wire';
+import type {
+  AssumptionContent,
+  AssumptionSetDetail,
+  AssumptionSetSummary as ServerSummary,
+  FundAssumptionInput,
+  SetComparison as ServerComparison,
+} from '@/server/services/assumptions';
+import type { HistorySuggestion as ServerSuggestion } from '@/server/services/history';
 
-export type FundAssumption = { fundId: string; expectedReturn: number; volatility: number; annualCharge: number };
-export type AssumptionContent = {
-  setAt: string;
-  rationale: string;
-  inflation: number;
-  salaryGrowth: number;
-  annuityRealRate: number;
-  annuityYears: number;
-  funds: FundAssumption[];
-  correlations: number[][];
-};
-export type AssumptionSetSummary = {
-  id: string;
-  version: number;
-  status: 'draft' | 'approved';
-  setAt: string;
-  basedOnId: string | null;
-  createdBy: string | null;
-  createdAt: string;
-  updatedAt: string;
-  approvedBy: string | null;
-  approvedAt: string | null;
-};
-export type AssumptionSet = AssumptionSetSummary &
-  Omit<AssumptionContent, 'funds'> & { funds: (FundAssumption & { name: string; assetClass: string })[]; basedOnVersion: number | null };
+export type FundAssumption = FundAssumptionInput;
+export type { AssumptionContent };
+export type AssumptionSetSummary = Wire<ServerSummary>;
+export type AssumptionSet = Wire<AssumptionSetDetail>;
+export type SetComparison = Wire<ServerComparison>;
 
-export type SetComparison = {
-  a: AssumptionSetSummary;
-  b: AssumptionSetSummary;
-  fields: { field: string; a: string | number; b: string | number; changed: boolean }[];
-  funds: { fundId: string; name: string; a: FundAssumption | null; b: FundAssumption | null; changed: string[] }[];
-  correlations: { fundA: string; fundB: string; nameA: string; nameB: string; a: number | null; b: number | null }[];
-};
-
-export type HistorySuggestion = {
-  from: string;
-  to: string;
-  months: number;
-  thin: boolean;
-  method: string;
-  fileName: string;
-  dates: string[];
-  funds: { fundId: string; name: string; monthlyMean: number; monthlySd: number; monthlyVariance: number; annualReturn: number; annualVolatility: number; growth: number[] }[];
-  correlations: number[][];
-  undefinedCorrelations: string[];
-  current: { id: string; version: number; funds: AssumptionSet['funds']; correlations: number[][] } | null;
-};
+/** The route adds the latest approved version beside the suggestion. */
+export type HistorySuggestion = Wire<ServerSuggestion> & { current: { id: string; version: number; funds: AssumptionSet['funds']; correlations: number[][] } | null };
 
 export const assumptionKeys = {
   all: (schemeId: string) => ['assumptions', schemeId] as const,

@@ -2,20 +2,14 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from './api';
 import { useCurrentScheme } from './useCurrentScheme';
 import { fileForm, type PickedFile } from './upload';
+import type { Wire } from '@/types/wire';
+import type { IllustrativeInput as ServerIllustrativeInput, IllustrativeRow } from '@/server/services/members';
+import type { MembershipSummary as ServerMembershipSummary } from '@/server/services/membership';
 
-export type IllustrativeMember = { id: string; label: string; age: number; retirementAge: number; salary: number; salaryGrowth: number | null; contributionRate: number; pot: number };
-export type IllustrativeInput = Omit<IllustrativeMember, 'id'>;
-export type MembershipRecord = { id: number; reference: string; age: number; salary: number; pot: number; contributionRate: number; retirementAge: number };
-export type MembershipSummary = {
-  count: number;
-  uploadedAt: string | null;
-  ages: { band: string; count: number }[];
-  totals: { salary: number; pot: number };
-  medians: { age: number | null; salary: number | null; pot: number | null; contributionRate: number | null };
-  rows: MembershipRecord[];
-  offset: number;
-  limit: number;
-};
+export type IllustrativeMember = Pick<Wire<IllustrativeRow>, 'id' | keyof ServerIllustrativeInput>;
+export type IllustrativeInput = ServerIllustrativeInput;
+export type MembershipSummary = Wire<ServerMembershipSummary>;
+export type MembershipRecord = MembershipSummary['rows'][number];
 
 export const memberKeys = {
   illustrative: (schemeId: string) => ['illustrative-members', schemeId] as const,

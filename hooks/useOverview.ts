@@ -1,17 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
-import type { Role } from '@/constants/permissions';
+import type { Wire } from '@/types/wire';
+import type { schemeOverview } from '@/server/services/overview';
 import { api } from './api';
 
-export type Overview = {
-  scheme: { id: string; name: string; currency: string; role: Role };
-  counts: { funds: number; options: number; illustrativeMembers: number | null; schemeMembers: number | null };
-  assumptions: {
-    latestApproved: { id: string; version: number; setAt: string; approvedBy: string | null; approvedAt: string | null } | null;
-    drafts: { id: string; version: number; updatedAt: string; createdBy: string | null }[];
-  } | null;
-  runs: { id: string; status: 'queued' | 'running' | 'done' | 'failed'; progress: number; paths: number; assumptionsDraft: boolean; createdAt: string }[] | null;
-  reports: { id: string; title: string; draft: boolean; createdAt: string }[] | null;
-};
+export type Overview = Wire<Awaited<ReturnType<typeof schemeOverview>>>;
 
 export const overviewKeys = { scheme: (schemeId: string) => ['schemes', schemeId, 'overview'] as const };
 

@@ -1,5 +1,7 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { ScenarioInput, Stress } from '@/simulation';
+import type { Wire } from '@/types/wire';
+import type { PairFigures as ServerPairFigures, StoredResult, StoredVariant as ServerStoredVariant } from '@/server/jobs/result';
 import { api } from './api';
 
 export type RunStatus = 'queued' | 'running' | 'done' | 'failed';
@@ -24,36 +26,9 @@ export type RunSummary = {
   finishedAt: string | null;
 };
 
-export type PercentileValues = Record<string, number>;
-export type PairFigures = {
-  optionId: string;
-  memberId: string;
-  years: number;
-  ages: number[];
-  bands: { nominal: Record<string, number[]>; real: Record<string, number[]> };
-  atRetirement: {
-    mean: { nominal: number; real: number };
-    standardError: { nominal: number; real: number };
-    percentiles: { nominal: PercentileValues; real: PercentileValues };
-    targetRealPot: number;
-    probabilityReachingTarget: number;
-    expectedShortfall: { level: number; nominal: number; real: number };
-    certaintyEquivalent: { lambda: number; realPot: number; realAnnualReturn: number | null };
-  };
-  extraStandardErrors: { p50Real: number; p5Real: number; probabilityReachingTarget: number };
-};
-export type StoredVariant = {
-  result: { seed: number; paths: number; inflation: number; riskAversion: number; stress: Stress | null; results: PairFigures[] };
-  samples: { optionId: string; memberId: string; realPots: number[] }[];
-};
-export type RunResult = {
-  kind: 'keelson-run-result';
-  engineVersion: string;
-  sample: { kind: 'all' | 'quantiles'; size: number };
-  base: StoredVariant;
-  stressed: StoredVariant | null;
-  reproduction?: { of: string; matches: boolean; firstDifference: { path: string; original: unknown; rerun: unknown } | null; checkedAt: string };
-};
+export type PairFigures = Wire<ServerPairFigures>;
+export type StoredVariant = Wire<ServerStoredVariant>;
+export type RunResult = Wire<StoredResult>;
 export type RunDetail = RunSummary & {
   input: { scenario: ScenarioInput; funds: { id: string; name: string }[]; members: { id: string; label: string; age: number; retirementAge: number }[] };
   result: RunResult | null;
