@@ -116,6 +116,25 @@ function contentOf(set: AssumptionSetDetail | AssumptionContent): AssumptionCont
   };
 }
 
+/** The assumption_sets columns that hold a set's content (the per-fund figures live in fund_assumptions). */
+function contentColumns(c: AssumptionContent) {
+  return {
+    setAt: c.setAt,
+    rationale: c.rationale,
+    inflation: c.inflation,
+    salaryGrowth: c.salaryGrowth,
+    annuityRealRate: c.annuityRealRate,
+    annuityYears: c.annuityYears,
+    fundOrder: c.funds.map((f) => f.fundId),
+    correlations: c.correlations,
+  };
+}
+
+/** Every fund the content names must be a fund of the scheme (400 naming funds.i.fundId otherwise). */
+function assertContentFunds(db: DbOrTx, schemeId: string, c: AssumptionContent) {
+  return assertSchemeFunds(db, schemeId, c.funds.map((f) => f.fundId), c.funds.map((_, i) => `funds.${i}.fundId`));
+}
+
 async function writeContent(tx: DbOrTx, setId: string, c: AssumptionContent) {
   await tx.delete(fundAssumptions).where(eq(fundAssumptions.assumptionSetId, setId));
   await tx.insert(fundAssumptions).values(c.funds.map((f) => ({ assumptionSetId: setId, ...f })));
@@ -131,7 +150,7 @@ async function nextVersion(tx: DbOrTx, schemeId: string): Promise<number> {
 /** Creates a new draft from the given content (a copy of `basedOnId` when given). */
 export async function createDraft(db: DbOrTx, req: Request, content: AssumptionContent, basedOnId: string | null = null): Promise<AssumptionSetDetail> {
   const schemeId = req.scheme!.id;
-  await assertSchemeFunds(db, schemeId, content.funds.map((f) => f.fundId), content.funds.map((_, i) => `funds.${i}.fundId`));
+  await assertContentFunds(db, schemeId, content);
   const id = await db.transaction(async (tx) => {
     const version = await nextVersion(tx, schemeId);
     const [row] = await tx
@@ -140,14 +159,7 @@ export async function createDraft(db: DbOrTx, req: Request, content: AssumptionC
         schemeId,
         version,
         status: 'draft',
-        setAt: content.setAt,
-        rationale: content.rationale,
-        inflation: content.inflation,
-        salaryGrowth: content.salaryGrowth,
-        annuityRealRate: content.annuityRealRate,
-        annuityYears: content.annuityYears,
-        fundOrder: content.funds.map((f) => f.fundId),
-        correlations: content.correlations,
+        ...contentColumns(content),
         basedOnId,
         createdBy: req.user!.id,
       })
@@ -179,20 +191,10 @@ export async function updateDraft(db: DbOrTx, req: Request, id: string, content:
     if (!locked) throw notFound('No such assumption set in this scheme.');
     const before = await getSet(tx, schemeId, id);
     if (before.status !== 'draft') throw immutable(before);
-    await assertSchemeFunds(tx, schemeId, content.funds.map((f) => f.fundId), content.funds.map((_, i) => `funds.${i}.fundId`));
+    await assertContentFunds(tx, schemeId, content);
     await tx
       .update(assumptionSets)
-      .set({
-        setAt: content.setAt,
-        rationale: content.rationale,
-        inflation: content.inflation,
-        salaryGrowth: content.salaryGrowth,
-        annuityRealRate: content.annuityRealRate,
-        annuityYears: content.annuityYears,
-        fundOrder: content.funds.map((f) => f.fundId),
-        correlations: content.correlations,
-        updatedAt: new Date(),
-      })
+      .set({ ...contentColumns(content), updatedAt: new Date() })
       .where(and(eq(assumptionSets.id, id), eq(assumptionSets.status, 'draft')));
     await writeContent(tx, id, content);
     await audit(tx, req, { action: 'assumptions.draft-updated', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) }, after: { version: before.version, ...content } });
