@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type PgBoss from 'pg-boss';
 import type { Pool } from 'pg';
 import type { Db, DbOrTx } from '../../db/client';
-import { createBoss, producerFor, queueSettings, transactionExecutor } from './queue';
+import { createBoss, ensureQueue, envNumber, producerFor, queueSettings, transactionExecutor } from './queue';
 import { processMail } from '../email/outbox';
 import type { MailTransport } from '../email/transport';
 import { processStatementExport } from '../services/statements';
@@ -14,34 +14,14 @@ import { processStatementExport } from '../services/statements';
 export const MAIL_QUEUE = 'mail-send';
 export const EXPORT_QUEUE = 'statement-export';
 
-function num(name: string, fallback: number, min: number, env: Record<string, string | undefined> = process.env): number {
-  const raw = env[name];
-  if (raw === undefined || raw === '') return fallback;
-  const v = Number(raw);
-  if (!Number.isFinite(v) || v < min) throw new Error(`${name} must be a number of at least ${min} (got "${raw}")`);
-  return v;
-}
-
 /** Retries for a failed send: attempts after the first, and the first delay (doubling after). */
 export function mailRetrySettings() {
-  return { retryLimit: num('KEELSON_MAIL_RETRY_LIMIT', 5, 0), retryDelay: num('KEELSON_MAIL_RETRY_DELAY_SECONDS', 30, 0), retryBackoff: true };
+  return { retryLimit: envNumber(process.env, 'KEELSON_MAIL_RETRY_LIMIT', 5, 0), retryDelay: envNumber(process.env, 'KEELSON_MAIL_RETRY_DELAY_SECONDS', 30, 0), retryBackoff: true };
 }
 
-function queueOptions(name: string) {
+function queueOptions(name: string): PgBoss.Queue & { retryLimit: number; retryDelay: number; retryBackoff: boolean; expireInSeconds: number } {
   if (name === MAIL_QUEUE) return { name, policy: 'standard' as const, ...mailRetrySettings(), expireInSeconds: 120 };
   return { name, policy: 'standard' as const, retryLimit: 2, retryDelay: 5, retryBackoff: false, expireInSeconds: 30 * 60 };
-}
-
-async function ensureQueue(boss: PgBoss, name: string) {
-  const options = queueOptions(name);
-  if (await boss.getQueue(name)) await boss.updateQueue(name, options);
-  else {
-    try {
-      await boss.createQueue(name, options);
-    } catch (e) {
-      if (!(await boss.getQueue(name))) throw e;
-    }
-  }
 }
 
 const ready = new WeakMap<Pool, Promise<PgBoss>>();
@@ -52,8 +32,8 @@ export function backgroundProducer(pool: Pool): Promise<PgBoss> {
   if (!p) {
     p = (async () => {
       const boss = await producerFor(pool);
-      await ensureQueue(boss, MAIL_QUEUE);
-      await ensureQueue(boss, EXPORT_QUEUE);
+      await ensureQueue(boss, queueOptions(MAIL_QUEUE));
+      await ensureQueue(boss, queueOptions(EXPORT_QUEUE));
       return boss;
     })();
     p.catch(() => ready.delete(pool));
@@ -76,8 +56,8 @@ export async function startBackgroundWorkers(opts: { db: Db; pool: Pool; transpo
   const log = opts.log ?? ((m: string) => console.log(`keelson: ${m}`));
   const boss = createBoss(opts.pool, 'worker');
   await boss.start();
-  await ensureQueue(boss, MAIL_QUEUE);
-  await ensureQueue(boss, EXPORT_QUEUE);
+  await ensureQueue(boss, queueOptions(MAIL_QUEUE));
+  await ensureQueue(boss, queueOptions(EXPORT_QUEUE));
   const pollingIntervalSeconds = queueSettings().pollingIntervalSeconds;
   await boss.work<{ id: string }>(MAIL_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds }, async ([job]) => {
     const lastAttempt = job.retryCount >= job.retryLimit;

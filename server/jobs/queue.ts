@@ -24,7 +24,8 @@ export type QueueSettings = {
   pollingIntervalSeconds: number;
 };
 
-function num(env: Record<string, string | undefined>, name: string, fallback: number, min: number): number {
+/** A numeric setting from the environment: the fallback when unset, a clear error when not a number ≥ min. */
+export function envNumber(env: Record<string, string | undefined>, name: string, fallback: number, min: number): number {
   const raw = env[name];
   if (raw === undefined || raw === '') return fallback;
   const v = Number(raw);
@@ -35,11 +36,11 @@ function num(env: Record<string, string | undefined>, name: string, fallback: nu
 /** Settings from the environment, with production defaults (a run may take minutes; expiry allows half an hour). */
 export function queueSettings(env: Record<string, string | undefined> = process.env): QueueSettings {
   return {
-    expireInSeconds: num(env, 'KEELSON_RUN_EXPIRE_SECONDS', 30 * 60, 1),
-    retryLimit: num(env, 'KEELSON_RUN_RETRY_LIMIT', 3, 0),
-    retryDelaySeconds: num(env, 'KEELSON_RUN_RETRY_DELAY_SECONDS', 2, 0),
-    maintenanceIntervalSeconds: num(env, 'KEELSON_QUEUE_MAINTENANCE_SECONDS', 30, 1),
-    pollingIntervalSeconds: num(env, 'KEELSON_QUEUE_POLL_SECONDS', 1, 0.5),
+    expireInSeconds: envNumber(env, 'KEELSON_RUN_EXPIRE_SECONDS', 30 * 60, 1),
+    retryLimit: envNumber(env, 'KEELSON_RUN_RETRY_LIMIT', 3, 0),
+    retryDelaySeconds: envNumber(env, 'KEELSON_RUN_RETRY_DELAY_SECONDS', 2, 0),
+    maintenanceIntervalSeconds: envNumber(env, 'KEELSON_QUEUE_MAINTENANCE_SECONDS', 30, 1),
+    pollingIntervalSeconds: envNumber(env, 'KEELSON_QUEUE_POLL_SECONDS', 1, 0.5),
   };
 }
 
@@ -78,25 +79,29 @@ export function createBoss(pool: Pool, role: 'producer' | 'worker', settings = q
   return boss;
 }
 
-/** Creates the queue if missing and keeps its retry and expiry settings current. */
-export async function ensureRunQueue(boss: PgBoss, settings = queueSettings()): Promise<void> {
-  const options = {
+/** Creates a queue if missing and keeps its retry and expiry settings current. */
+export async function ensureQueue(boss: PgBoss, options: PgBoss.Queue): Promise<void> {
+  if (await boss.getQueue(options.name)) await boss.updateQueue(options.name, options);
+  else {
+    try {
+      await boss.createQueue(options.name, options);
+    } catch (e) {
+      // Another process created it at the same moment.
+      if (!(await boss.getQueue(options.name))) throw e;
+    }
+  }
+}
+
+/** The projection queue, with the settings from the environment. */
+export function ensureRunQueue(boss: PgBoss, settings = queueSettings()): Promise<void> {
+  return ensureQueue(boss, {
     name: RUN_QUEUE,
-    policy: 'standard' as const,
+    policy: 'standard',
     retryLimit: settings.retryLimit,
     retryDelay: settings.retryDelaySeconds,
     retryBackoff: false,
     expireInSeconds: settings.expireInSeconds,
-  };
-  if (await boss.getQueue(RUN_QUEUE)) await boss.updateQueue(RUN_QUEUE, options);
-  else {
-    try {
-      await boss.createQueue(RUN_QUEUE, options);
-    } catch (e) {
-      // Another process created it at the same moment.
-      if (!(await boss.getQueue(RUN_QUEUE))) throw e;
-    }
-  }
+  });
 }
 
 const producers = new WeakMap<Pool, Promise<PgBoss>>();
