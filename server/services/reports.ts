@@ -5,7 +5,7 @@ import { assumptionSets, reports, schemeRoles, users } from '../../db/schema';
 import { conflict, notFound } from '../errors';
 import { audit } from './audit';
 import { loadFinishedRun, slug } from './statements';
-import { buildReportContent, type ReportContent } from '../reports/content';
+import { buildReportContent, type ReportContent, type RunForReport } from '../reports/content';
 import { comparisonCsvRows, renderBoardReport } from '../reports/boardPdf';
 import { toCsv } from '../reports/csv';
 import { CAUTION_TEXT } from '../reports/caution';
@@ -34,11 +34,9 @@ export async function createReport(ctx: AppContext, req: Request, body: ReportRe
   const createdAt = new Date();
   const lambda = body.riskAversion ?? run.riskAversion;
   const title = body.title?.trim() || `Default option review, ${formatDate(createdAt)}`;
-  const content = buildReportContent(
-    { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result },
-    { title, schemeName: scheme.name, currency: scheme.currency, lambda, createdAt, approvedBy },
-  );
-  const pdf = await renderBoardReport(content, { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result });
+  const forReport: RunForReport = { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result };
+  const content = buildReportContent(forReport, { title, schemeName: scheme.name, currency: scheme.currency, lambda, createdAt, approvedBy });
+  const pdf = await renderBoardReport(content, forReport);
   return ctx.db.transaction(async (tx) => {
     const [row] = await tx
       .insert(reports)
