@@ -1,6 +1,6 @@
 import { randomInt } from 'node:crypto';
 import type { Request } from 'express';
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, getTableColumns } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { assumptionSets, defaultOptions, funds, illustrativeMembers, projectionRuns } from '../../db/schema';
 import { conflict, notFound } from '../errors';
@@ -83,8 +83,11 @@ async function insertAndQueue(
 
 type RunRow = typeof projectionRuns.$inferSelect;
 
+/** Every column but the result (hundreds of KiB per run), for lists. */
+const { result: _result, ...summaryColumns } = getTableColumns(projectionRuns);
+
 /** A run without its result: for lists and progress polling. */
-export function summary(r: RunRow) {
+export function summary(r: Omit<RunRow, 'result'>) {
   const input = r.input as ScenarioSnapshot;
   return {
     id: r.id,
@@ -109,7 +112,7 @@ export function summary(r: RunRow) {
 }
 
 export async function listRuns(ctx: AppContext, schemeId: string, limit: number) {
-  const rows = await ctx.db.select().from(projectionRuns).where(eq(projectionRuns.schemeId, schemeId)).orderBy(desc(projectionRuns.createdAt)).limit(limit);
+  const rows = await ctx.db.select(summaryColumns).from(projectionRuns).where(eq(projectionRuns.schemeId, schemeId)).orderBy(desc(projectionRuns.createdAt)).limit(limit);
   return rows.map(summary);
 }
 
