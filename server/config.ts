@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { z } from 'zod';
 import { DEFAULT_DATABASE_URL } from '../db/client';
 
@@ -53,7 +54,5 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
  * development restart keeps sessions valid; production must set its own.
  */
 function stableDevSecret(dbUrl: string): string {
-  // eslint-disable-next-line @typescript-eslint/no-require-imports
-  const { createHash } = require('node:crypto') as typeof import('node:crypto');
   return createHash('sha256').update(`keelson-dev:${dbUrl}`).digest('hex');
 }
