@@ -1,11 +1,10 @@
-import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROUTES } from '../../server/routing';
-import { can, ROLES, type Role } from '../../constants/permissions';
-import { schemeRoles, users } from '../../db/schema';
-import { DEMO_USERS } from '../../db/seed';
+import { ROLES, type Role } from '../../constants/permissions';
+import { users } from '../../db/schema';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
-import type { Example, ExampleEntry, Examples, Fixtures } from './route-examples/types';
+import type { Example, Fixtures } from './route-examples/types';
+import { allowed, exampleFor, fillPath, fixtures as fixturesOf, signInDemoUsers } from './route-examples/harness';
 
 /**
  * Every JSON field of every route's example request is replaced, one at a
@@ -13,8 +12,6 @@ import type { Example, ExampleEntry, Examples, Fixtures } from './route-examples
  * non-error answer with the value stored and returned inert (as JSON data) —
  * never a 500.
  */
-const modules = (import.meta as unknown as { glob: (p: string, o: { eager: true }) => Record<string, { examples?: Examples }> }).glob('./route-examples/*.ts', { eager: true });
-const EXAMPLES: Examples = Object.assign({}, ...Object.values(modules).map((m) => m.examples ?? {}));
 
 const HOSTILE: [string, unknown][] = [
   ['SQL injection', "x'); DROP TABLE users; --"],
@@ -52,35 +49,18 @@ function setAt(body: unknown, path: Path, value: unknown): unknown {
 }
 
 let s: TestServer;
-const clients = {} as Record<Role, Client>;
+let clients: Record<Role, Client>;
 let demoUsers: Fixtures['users'];
 
-function fixtures(): Fixtures {
-  return {
-    db: s.db,
-    schemeId: s.schemeId,
-    nonce: randomBytes(4).toString('hex'),
-    users: demoUsers,
-    makeUser: async (role) => {
-      const [u] = await s.db.insert(users).values({ email: `h-${randomBytes(5).toString('hex')}@example.org`, displayName: 'Fixture person' }).returning();
-      await s.db.insert(schemeRoles).values({ userId: u.id, schemeId: s.schemeId, role });
-      return { id: u.id, email: u.email };
-    },
-  };
-}
+const fixtures = () => fixturesOf(s, demoUsers, s.schemeId);
 
 beforeAll(async () => {
   s = await startTestServer();
-  const rows = await s.db.select({ id: users.id, email: users.email }).from(users);
-  demoUsers = Object.fromEntries(DEMO_USERS.map((d) => [d.role, rows.find((r) => r.email === d.email)!])) as Fixtures['users'];
-  for (const d of DEMO_USERS) {
-    clients[d.role] = new Client(s.baseUrl);
-    await clients[d.role].signIn(d.email);
-  }
+  ({ clients, demoUsers } = await signInDemoUsers(s));
 });
 afterAll(async () => s?.close());
 
-const withBodies = () => ROUTES.filter((r) => r.method !== 'get' && typeof EXAMPLES[`${r.method.toUpperCase()} ${r.path}`] === 'function');
+const withBodies = () => ROUTES.filter((r) => r.method !== 'get' && exampleFor(r));
 
 describe('hostile input in every form field', () => {
   it('covers at least the account forms', () => {
@@ -91,15 +71,15 @@ describe('hostile input in every form field', () => {
     const failures: string[] = [];
     let cases = 0;
     for (const route of withBodies()) {
-      const entry = EXAMPLES[`${route.method.toUpperCase()} ${route.path}`] as Exclude<ExampleEntry, { skip: string }>;
-      const role = ROLES.find((r) => route.access === 'public' || route.access === 'signed-in' || can(r, route.access as never))!;
+      const entry = exampleFor(route)!;
+      const role = ROLES.find((r) => allowed(route, r))!;
       const probe = await entry(fixtures());
       if (probe.form || probe.body === undefined) continue;
       for (const path of fieldPaths(probe.body)) {
         for (const [label, value] of HOSTILE) {
           const ex: Example = await entry(fixtures());
           const body = setAt(ex.body, path, value);
-          const url = route.path.replace(/:([A-Za-z]+)/g, (_, n: string) => encodeURIComponent(ex.params![n]));
+          const url = fillPath(route.path, ex.params);
           const r = await clients[role].call(route.method.toUpperCase(), url, body);
           cases++;
           const where = `${route.method.toUpperCase()} ${route.path} ${path.join('.')} ← ${label}`;

@@ -1,67 +1,24 @@
-import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { ROUTES, type RouteSpec } from '../../server/routing';
-import { can, ROLES, type Role } from '../../constants/permissions';
-import { schemeRoles, schemes, users } from '../../db/schema';
-import { DEMO_USERS } from '../../db/seed';
+import { ROUTES } from '../../server/routing';
+import { ROLES, type Role } from '../../constants/permissions';
+import { schemeRoles, schemes } from '../../db/schema';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
-import type { Example, ExampleEntry, Examples, Fixtures } from './route-examples/types';
-
-// Every file in route-examples/ contributes examples; together they must cover ROUTES.
-const modules = (import.meta as unknown as { glob: (p: string, o: { eager: true }) => Record<string, { examples?: Examples }> }).glob('./route-examples/*.ts', { eager: true });
-const EXAMPLES: Examples = Object.assign({}, ...Object.values(modules).map((m) => m.examples ?? {}));
-
-const key = (r: RouteSpec) => `${r.method.toUpperCase()} ${r.path}`;
+import type { Fixtures } from './route-examples/types';
+import { allowed, callExample as call, EXAMPLES, exampleFor, fixtures as fixturesOf, routeKey as key, signInDemoUsers } from './route-examples/harness';
 
 let s: TestServer;
-const clients = {} as Record<Role, Client>;
+let clients: Record<Role, Client>;
 let anon: Client;
 let demoUsers: Fixtures['users'];
 let isolatedSchemeId: string;
 
-function fixtures(schemeId: string): Fixtures {
-  return {
-    db: s.db,
-    schemeId,
-    nonce: randomBytes(4).toString('hex'),
-    users: demoUsers,
-    makeUser: async (role) => {
-      const [u] = await s.db.insert(users).values({ email: `u-${randomBytes(5).toString('hex')}@example.org`, displayName: 'Fixture person' }).returning();
-      await s.db.insert(schemeRoles).values({ userId: u.id, schemeId, role });
-      return { id: u.id, email: u.email };
-    },
-  };
-}
-
-function fill(path: string, params: Record<string, string> = {}): string {
-  return path.replace(/:([A-Za-z]+)/g, (_, name: string) => {
-    if (!(name in params)) throw new Error(`example for ${path} gives no :${name}`);
-    return encodeURIComponent(params[name]);
-  });
-}
-
-async function call(c: Client, route: RouteSpec, ex: Example) {
-  let path = fill(route.path, ex.params);
-  if (ex.query) path += `?${new URLSearchParams(ex.query)}`;
-  const body = ex.form ? ex.form() : route.method === 'get' ? undefined : (ex.body ?? {});
-  return c.call(route.method.toUpperCase(), path, body);
-}
-
-function allowed(route: RouteSpec, role: Role): boolean {
-  if (route.access === 'public' || route.access === 'signed-in') return true;
-  return can(role, route.access);
-}
+const fixtures = (schemeId: string) => fixturesOf(s, demoUsers, schemeId);
 
 beforeAll(async () => {
   s = await startTestServer();
   anon = new Client(s.baseUrl);
-  const rows = await s.db.select({ id: users.id, email: users.email }).from(users);
-  demoUsers = Object.fromEntries(DEMO_USERS.map((d) => [d.role, rows.find((r) => r.email === d.email)!])) as Fixtures['users'];
-  for (const d of DEMO_USERS) {
-    clients[d.role] = new Client(s.baseUrl);
-    await clients[d.role].signIn(d.email);
-  }
+  ({ clients, demoUsers } = await signInDemoUsers(s));
   const [iso] = await s.db.insert(schemes).values({ name: 'Isolated scheme nobody here belongs to' }).returning();
   isolatedSchemeId = iso.id;
 });
@@ -77,11 +34,11 @@ describe('route × role matrix (generated from the permission table)', () => {
     for (const [k, e] of Object.entries(EXAMPLES)) if (typeof e !== 'function') expect(e.skip.length, k).toBeGreaterThan(10);
   });
 
-  const routesFor = () => ROUTES.filter((r) => typeof EXAMPLES[key(r)] === 'function');
+  const routesFor = () => ROUTES.filter((r) => exampleFor(r));
 
   it('answers 401 to a signed-out caller on every guarded route', async () => {
     for (const route of routesFor().filter((r) => r.access !== 'public')) {
-      const ex = await (EXAMPLES[key(route)] as Exclude<ExampleEntry, { skip: string }>)(fixtures(s.schemeId));
+      const ex = await exampleFor(route)!(fixtures(s.schemeId));
       const r = await call(anon, route, ex);
       expect(r.status, `${key(route)} signed out`).toBe(401);
     }
@@ -91,7 +48,7 @@ describe('route × role matrix (generated from the permission table)', () => {
     const failures: string[] = [];
     for (const route of routesFor()) {
       for (const role of ROLES) {
-        const ex = await (EXAMPLES[key(route)] as Exclude<ExampleEntry, { skip: string }>)(fixtures(s.schemeId));
+        const ex = await exampleFor(route)!(fixtures(s.schemeId));
         const r = await call(clients[role], route, ex);
         const ok = allowed(route, role) ? r.status >= 200 && r.status < 300 : r.status === 403;
         if (!ok) failures.push(`${key(route)} as ${role}: ${r.status} ${JSON.stringify(r.body).slice(0, 200)}`);
@@ -104,7 +61,7 @@ describe('route × role matrix (generated from the permission table)', () => {
     const failures: string[] = [];
     for (const route of routesFor().filter((r) => r.path.includes(':schemeId'))) {
       const role = ROLES.find((x) => allowed(route, x))!;
-      const ex = await (EXAMPLES[key(route)] as Exclude<ExampleEntry, { skip: string }>)(fixtures(isolatedSchemeId));
+      const ex = await exampleFor(route)!(fixtures(isolatedSchemeId));
       // 1. The whole request aimed at a scheme the caller has no role on.
       const r1 = await call(clients[role], route, ex);
       if (r1.status !== 404 || JSON.stringify(r1.body).includes('Isolated scheme')) failures.push(`${key(route)} other scheme: ${r1.status}`);
