@@ -1,4 +1,5 @@
 import type { Request } from 'express';
+import { contextOf } from '../services/context';
 import type { Pool } from 'pg';
 import { and, eq, inArray } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../../db/client';
@@ -33,7 +34,7 @@ export async function queueMail(pool: Pool, tx: DbOrTx, req: Request | null, m: 
     await tx.insert(outboxAttachments).values(m.attachments.map((a) => ({ messageId: row.id, filename: a.filename, contentType: a.contentType, content: a.content })));
   }
   await enqueue(pool, tx, MAIL_QUEUE, { id: row.id });
-  await audit(tx, req, {
+  await audit(tx, req ? contextOf(req) : null, {
     action: 'mail.queued',
     schemeId: m.schemeId ?? null,
     entity: 'outbox_message',
@@ -62,7 +63,7 @@ export function mailSender(db: Db, pool: Pool) {
             .insert(outboxMessages)
             .values({ schemeId: m.schemeId ?? null, kind: m.kind ?? 'account', recipients: Array.isArray(m.to) ? m.to : [m.to], subject: m.subject, body: m.text, status: 'failed', lastError: reason })
             .returning();
-          await audit(tx, req, { action: 'mail.failed', schemeId: m.schemeId ?? null, entity: 'outbox_message', entityId: row.id, after: { reason } });
+          await audit(tx, req ? contextOf(req) : null, { action: 'mail.failed', schemeId: m.schemeId ?? null, entity: 'outbox_message', entityId: row.id, after: { reason } });
         })
         .catch((e: Error) => console.error(`keelson: could not record the failed mail either: ${e.message}`));
     }

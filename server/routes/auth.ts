@@ -1,4 +1,5 @@
 import { Router, type Request } from 'express';
+import { contextOf } from '../services/context';
 import { rateLimit } from 'express-rate-limit';
 import { sql, eq } from 'drizzle-orm';
 import { z } from 'zod';
@@ -45,7 +46,7 @@ export function authRouter(ctx: AppContext): Router {
     pp.authenticate('local', (err: unknown, user: Express.User | false) => {
       if (err) return next(err);
       if (!user) {
-        audit(ctx.db, req, { action: 'sign-in.failed', userId: null, actorEmail: emailKey(body.email) })
+        audit(ctx.db, contextOf(req), { action: 'sign-in.failed', userId: null, actorEmail: emailKey(body.email) })
           .then(() => res.status(401).json({ error: 'sign_in_failed', message: SIGN_IN_FAILED }))
           .catch(next);
         return;
@@ -55,7 +56,7 @@ export function authRouter(ctx: AppContext): Router {
         if (e1) return next(e1);
         req.login(user, (e2) => {
           if (e2) return next(e2);
-          audit(ctx.db, req, { action: 'sign-in', userId: user.id, actorEmail: user.email })
+          audit(ctx.db, contextOf(req), { action: 'sign-in', userId: user.id, actorEmail: user.email })
             .then(() => meOf(ctx, user.id))
             .then((me) => res.json(me))
             .catch(next);
@@ -65,7 +66,7 @@ export function authRouter(ctx: AppContext): Router {
   });
 
   defineRoute(r, M, { method: 'post', path: '/sign-out', access: 'signed-in' }, async (req, res, next) => {
-    await audit(ctx.db, req, { action: 'sign-out' });
+    await audit(ctx.db, contextOf(req), { action: 'sign-out' });
     req.logout((e) => {
       if (e) return next(e);
       req.session.destroy((e2) => {
@@ -89,7 +90,7 @@ export function authRouter(ctx: AppContext): Router {
     const passwordHash = await hashPassword(body.newPassword);
     await ctx.db.transaction(async (tx) => {
       await tx.update(users).set({ passwordHash }).where(eq(users.id, u.id));
-      await audit(tx, req, { action: 'password.changed', entity: 'user', entityId: u.id });
+      await audit(tx, contextOf(req), { action: 'password.changed', entity: 'user', entityId: u.id });
     });
     res.json({ ok: true });
   });
@@ -99,7 +100,7 @@ export function authRouter(ctx: AppContext): Router {
     const [u] = await ctx.db.select().from(users).where(sql`lower(${users.email}) = ${emailKey(body.email)}`);
     if (u) {
       const { token } = await createToken(ctx.db, { kind: 'password_reset', email: u.email });
-      await audit(ctx.db, req, { action: 'password-reset.requested', userId: u.id, actorEmail: u.email });
+      await audit(ctx.db, contextOf(req), { action: 'password-reset.requested', userId: u.id, actorEmail: u.email });
       const send = req.app.locals.sendMail as ((m: { to: string; subject: string; text: string }) => Promise<void>) | undefined;
       const link = linkUrl(ctx, req, token);
       if (send) await send({ to: u.email, subject: 'Reset your Keelson password', text: `Use this link within 2 hours to set a new password:\n${link}` });
@@ -119,7 +120,7 @@ export function authRouter(ctx: AppContext): Router {
   defineRoute(r, M, { method: 'post', path: '/links/:token', access: 'public' }, async (req, res) => {
     const body = RedeemBody.parse(req.body);
     const out = await redeemToken(ctx.db, String(req.params.token), body.password, body.displayName, async (tx, user, t) => {
-      await audit(tx, req, {
+      await audit(tx, contextOf(req), {
         action: t.kind === 'invitation' ? 'invitation.accepted' : 'password.reset',
         schemeId: t.schemeId,
         entity: 'user',

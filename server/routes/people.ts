@@ -1,4 +1,5 @@
 import { Router } from 'express';
+import { contextOf } from '../services/context';
 import { and, desc, eq, gt, isNull, lt, or, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../context';
@@ -58,7 +59,7 @@ export function peopleRouter(ctx: AppContext): Router {
       if (already.length) throw conflict('That person already has a role on this scheme; change their role instead.');
       const { token, expiresAt } = await ctx.db.transaction(async (tx) => {
         const t = await createToken(tx as never, { kind: 'invitation', email: body.email, schemeId, role: body.role, createdBy: req.user!.id });
-        await audit(tx, req, { action: 'invitation.created', entity: 'invitation', entityId: emailKey(body.email), after: { email: emailKey(body.email), role: body.role } });
+        await audit(tx, contextOf(req), { action: 'invitation.created', entity: 'invitation', entityId: emailKey(body.email), after: { email: emailKey(body.email), role: body.role } });
         return t;
       });
       const link = linkUrl(ctx, req, token);
@@ -81,7 +82,7 @@ export function peopleRouter(ctx: AppContext): Router {
         const [before] = await tx.select().from(schemeRoles).where(and(eq(schemeRoles.userId, userId), eq(schemeRoles.schemeId, req.scheme!.id)));
         if (!before) throw notFound('No such person on this scheme.');
         await tx.update(schemeRoles).set({ role: body.role }).where(and(eq(schemeRoles.userId, userId), eq(schemeRoles.schemeId, req.scheme!.id)));
-        await audit(tx, req, { action: 'role.changed', entity: 'user', entityId: userId, before: { role: before.role }, after: { role: body.role } });
+        await audit(tx, contextOf(req), { action: 'role.changed', entity: 'user', entityId: userId, before: { role: before.role }, after: { role: body.role } });
         return { userId, role: body.role };
       });
       res.json(out);
@@ -98,7 +99,7 @@ export function peopleRouter(ctx: AppContext): Router {
       await ctx.db.transaction(async (tx) => {
         const [before] = await tx.delete(schemeRoles).where(and(eq(schemeRoles.userId, userId), eq(schemeRoles.schemeId, req.scheme!.id))).returning();
         if (!before) throw notFound('No such person on this scheme.');
-        await audit(tx, req, { action: 'role.removed', entity: 'user', entityId: userId, before: { role: before.role } });
+        await audit(tx, contextOf(req), { action: 'role.removed', entity: 'user', entityId: userId, before: { role: before.role } });
       });
       res.json({ ok: true });
     },
@@ -117,7 +118,7 @@ export function peopleRouter(ctx: AppContext): Router {
         .where(eq(users.id, userId));
       if (!u) throw notFound('No such person on this scheme.');
       const { token, expiresAt } = await createToken(ctx.db, { kind: 'password_reset', email: u.email, createdBy: req.user!.id });
-      await audit(ctx.db, req, { action: 'password-reset.issued', entity: 'user', entityId: u.id });
+      await audit(ctx.db, contextOf(req), { action: 'password-reset.issued', entity: 'user', entityId: u.id });
       res.status(201).json({ link: linkUrl(ctx, req, token), expiresAt });
     },
   );

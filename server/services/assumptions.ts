@@ -1,4 +1,5 @@
 import { and, desc, eq, sql } from 'drizzle-orm';
+import { contextOf } from './context';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
@@ -165,7 +166,7 @@ export async function createDraft(db: DbOrTx, req: Request, content: AssumptionC
       })
       .returning({ id: assumptionSets.id });
     await writeContent(tx, row.id, content);
-    await audit(tx, req, { action: 'assumptions.draft-created', entity: 'assumption_set', entityId: row.id, after: { version, basedOnId, ...content } });
+    await audit(tx, contextOf(req), { action: 'assumptions.draft-created', entity: 'assumption_set', entityId: row.id, after: { version, basedOnId, ...content } });
     return row.id;
   });
   return getSet(db, schemeId, id);
@@ -197,7 +198,7 @@ export async function updateDraft(db: DbOrTx, req: Request, id: string, content:
       .set({ ...contentColumns(content), updatedAt: new Date() })
       .where(and(eq(assumptionSets.id, id), eq(assumptionSets.status, 'draft')));
     await writeContent(tx, id, content);
-    await audit(tx, req, { action: 'assumptions.draft-updated', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) }, after: { version: before.version, ...content } });
+    await audit(tx, contextOf(req), { action: 'assumptions.draft-updated', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) }, after: { version: before.version, ...content } });
   });
   return getSet(db, schemeId, id);
 }
@@ -211,7 +212,7 @@ export async function deleteDraft(db: DbOrTx, req: Request, id: string): Promise
     const before = await getSet(tx, schemeId, id);
     if (before.status !== 'draft') throw immutable(before);
     await tx.delete(assumptionSets).where(eq(assumptionSets.id, id));
-    await audit(tx, req, { action: 'assumptions.draft-discarded', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) } });
+    await audit(tx, contextOf(req), { action: 'assumptions.draft-discarded', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) } });
   });
 }
 
@@ -226,7 +227,7 @@ export async function approve(db: DbOrTx, req: Request, id: string): Promise<Ass
     if (before.funds.length === 0) throw conflict(`Version ${before.version} has no funds; add at least one before approving.`);
     const approvedAt = new Date();
     await tx.update(assumptionSets).set({ status: 'approved', approvedBy: req.user!.id, approvedAt }).where(eq(assumptionSets.id, id));
-    await audit(tx, req, { action: 'assumptions.approved', entity: 'assumption_set', entityId: id, before: { version: before.version, status: 'draft' }, after: { version: before.version, status: 'approved', approvedAt } });
+    await audit(tx, contextOf(req), { action: 'assumptions.approved', entity: 'assumption_set', entityId: id, before: { version: before.version, status: 'draft' }, after: { version: before.version, status: 'approved', approvedAt } });
   });
   return getSet(db, schemeId, id);
 }

@@ -1,6 +1,6 @@
-import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { auditEvents } from '../../db/schema';
+import type { ServiceContext } from './context';
 
 export type AuditEntry = {
   action: string;
@@ -25,16 +25,16 @@ function scrub(v: unknown): unknown {
 }
 
 /** Records one audit event. Pass the transaction of the write it describes, so both commit or neither. */
-export async function audit(db: DbOrTx, req: Request | null, e: AuditEntry): Promise<void> {
+export async function audit(db: DbOrTx, ctx: ServiceContext | null, e: AuditEntry): Promise<void> {
   await db.insert(auditEvents).values({
     action: e.action,
-    schemeId: e.schemeId ?? req?.scheme?.id ?? null,
+    schemeId: e.schemeId ?? ctx?.schemeId ?? null,
     entity: e.entity,
     entityId: e.entityId,
     before: e.before === undefined ? null : scrub(e.before),
     after: e.after === undefined ? null : scrub(e.after),
-    userId: e.userId !== undefined ? e.userId : (req?.user?.id ?? null),
-    actorEmail: e.actorEmail !== undefined ? e.actorEmail : (req?.user?.email ?? null),
-    ip: req?.ip ?? null,
+    userId: e.userId !== undefined ? e.userId : (ctx?.actor?.id ?? null),
+    actorEmail: e.actorEmail !== undefined ? e.actorEmail : (ctx?.actor?.email ?? null),
+    ip: ctx?.ip ?? null,
   });
 }

@@ -1,4 +1,5 @@
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import { contextOf } from './context';
 import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { defaultOptions, fundAssumptions, funds } from '../../db/schema';
@@ -34,7 +35,7 @@ export async function createFund(db: DbOrTx, req: Request, body: { name: string;
   return db.transaction(async (tx) => {
     if (await nameTaken(tx, schemeId, body.name)) throw conflict(`This scheme already has a fund called "${body.name}".`);
     const [row] = await tx.insert(funds).values({ schemeId, name: body.name, assetClass: body.assetClass }).returning();
-    await audit(tx, req, { action: 'fund.created', entity: 'fund', entityId: row.id, after: { name: row.name, assetClass: row.assetClass } });
+    await audit(tx, contextOf(req), { action: 'fund.created', entity: 'fund', entityId: row.id, after: { name: row.name, assetClass: row.assetClass } });
     return row;
   });
 }
@@ -46,7 +47,7 @@ export async function updateFund(db: DbOrTx, req: Request, id: string, body: { n
     if (!before) throw notFound('No such fund in this scheme.');
     if (body.name && (await nameTaken(tx, schemeId, body.name, id))) throw conflict(`This scheme already has a fund called "${body.name}".`);
     const [row] = await tx.update(funds).set(body).where(eq(funds.id, id)).returning();
-    await audit(tx, req, { action: 'fund.updated', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass }, after: { name: row.name, assetClass: row.assetClass } });
+    await audit(tx, contextOf(req), { action: 'fund.updated', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass }, after: { name: row.name, assetClass: row.assetClass } });
     return row;
   });
 }
@@ -67,6 +68,6 @@ export async function deleteFund(db: DbOrTx, req: Request, id: string): Promise<
       throw conflict(`"${before.name}" is used by ${why}, so it cannot be removed.`);
     }
     await tx.delete(funds).where(eq(funds.id, id));
-    await audit(tx, req, { action: 'fund.removed', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass } });
+    await audit(tx, contextOf(req), { action: 'fund.removed', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass } });
   });
 }

@@ -1,4 +1,5 @@
 import type { Request } from 'express';
+import { contextOf } from './context';
 import { and, desc, eq, or, sql } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { outboxAttachments, outboxMessages } from '../../db/schema';
@@ -78,7 +79,7 @@ export async function retryMessage(ctx: AppContext, req: Request, id: string) {
       .returning({ id: outboxMessages.id, status: outboxMessages.status, attempts: outboxMessages.attempts });
     if (!row) throw conflict('The message changed meanwhile; reload the outbox.');
     await enqueue(ctx.pool, tx, MAIL_QUEUE, { id });
-    await audit(tx, req, { action: 'mail.retry-requested', schemeId: req.scheme!.id, entity: 'outbox_message', entityId: id, before: { status: 'failed', lastError: m.lastError }, after: { status: 'queued' } });
+    await audit(tx, contextOf(req), { action: 'mail.retry-requested', schemeId: req.scheme!.id, entity: 'outbox_message', entityId: id, before: { status: 'failed', lastError: m.lastError }, after: { status: 'queued' } });
     return row;
   });
 }

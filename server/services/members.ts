@@ -1,4 +1,5 @@
 import { and, asc, eq } from 'drizzle-orm';
+import { contextOf } from './context';
 import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { illustrativeMembers } from '../../db/schema';
@@ -17,7 +18,7 @@ export async function listIllustrative(db: DbOrTx, schemeId: string): Promise<Il
 export async function createIllustrative(db: DbOrTx, req: Request, input: IllustrativeInput): Promise<IllustrativeRow> {
   return db.transaction(async (tx) => {
     const [row] = await tx.insert(illustrativeMembers).values({ ...input, schemeId: req.scheme!.id }).returning();
-    await audit(tx, req, { action: 'illustrative-member.created', entity: 'illustrative_member', entityId: row.id, after: snapshot(row) });
+    await audit(tx, contextOf(req), { action: 'illustrative-member.created', entity: 'illustrative_member', entityId: row.id, after: snapshot(row) });
     return row;
   });
 }
@@ -28,7 +29,7 @@ export async function updateIllustrative(db: DbOrTx, req: Request, id: string, i
     const [before] = await tx.select().from(illustrativeMembers).where(where).for('update');
     if (!before) throw notFound('No such illustrative member in this scheme.');
     const [row] = await tx.update(illustrativeMembers).set(input).where(where).returning();
-    await audit(tx, req, { action: 'illustrative-member.updated', entity: 'illustrative_member', entityId: id, before: snapshot(before), after: snapshot(row) });
+    await audit(tx, contextOf(req), { action: 'illustrative-member.updated', entity: 'illustrative_member', entityId: id, before: snapshot(before), after: snapshot(row) });
     return row;
   });
 }
@@ -37,6 +38,6 @@ export async function deleteIllustrative(db: DbOrTx, req: Request, id: string): 
   await db.transaction(async (tx) => {
     const [before] = await tx.delete(illustrativeMembers).where(and(eq(illustrativeMembers.id, id), eq(illustrativeMembers.schemeId, req.scheme!.id))).returning();
     if (!before) throw notFound('No such illustrative member in this scheme.');
-    await audit(tx, req, { action: 'illustrative-member.removed', entity: 'illustrative_member', entityId: id, before: snapshot(before) });
+    await audit(tx, contextOf(req), { action: 'illustrative-member.removed', entity: 'illustrative_member', entityId: id, before: snapshot(before) });
   });
 }

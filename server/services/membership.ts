@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto';
+import { contextOf } from './context';
 import { asc, eq, sql } from 'drizzle-orm';
 import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
@@ -109,7 +110,7 @@ export async function replaceMembership(db: DbOrTx, req: Request, rows: Membersh
     for (let i = 0; i < rows.length; i += BATCH) {
       await tx.insert(schemeMembers).values(rows.slice(i, i + BATCH).map((r) => ({ ...r, schemeId, uploadedAt })));
     }
-    await audit(tx, req, { action: 'membership.replaced', entity: 'membership', entityId: schemeId, before: { count: before.n }, after: { count: rows.length, fileName: file.name, sha256 } });
+    await audit(tx, contextOf(req), { action: 'membership.replaced', entity: 'membership', entityId: schemeId, before: { count: before.n }, after: { count: rows.length, fileName: file.name, sha256 } });
     return { count: rows.length, replaced: before.n, uploadedAt };
   });
 }

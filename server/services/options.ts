@@ -1,4 +1,5 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
+import { contextOf } from './context';
 import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { defaultOptions, type GlidePathPoint } from '../../db/schema';
@@ -50,7 +51,7 @@ export async function createOption(db: DbOrTx, req: Request, input: OptionInput)
   return db.transaction(async (tx) => {
     if (await nameTaken(tx, schemeId, input.name)) throw conflict(`There is already an option called "${input.name}".`);
     const [row] = await tx.insert(defaultOptions).values({ schemeId, name: input.name, description: input.description, glidePath: normalise(input.glidePath) }).returning();
-    await audit(tx, req, { action: 'option.created', entity: 'default_option', entityId: row.id, after: snapshot(row) });
+    await audit(tx, contextOf(req), { action: 'option.created', entity: 'default_option', entityId: row.id, after: snapshot(row) });
     return row;
   });
 }
@@ -67,7 +68,7 @@ export async function updateOption(db: DbOrTx, req: Request, id: string, input: 
       .set({ name: input.name, description: input.description, glidePath: normalise(input.glidePath), updatedAt: new Date() })
       .where(eq(defaultOptions.id, id))
       .returning();
-    await audit(tx, req, { action: 'option.updated', entity: 'default_option', entityId: id, before: snapshot(before), after: snapshot(row) });
+    await audit(tx, contextOf(req), { action: 'option.updated', entity: 'default_option', entityId: id, before: snapshot(before), after: snapshot(row) });
     return row;
   });
 }
@@ -80,7 +81,7 @@ export async function setArchived(db: DbOrTx, req: Request, id: string, archived
     if (!before) throw notFound('No such default option in this scheme.');
     if (!archived && (await nameTaken(tx, schemeId, before.name, id))) throw conflict(`An active option is already called "${before.name}"; rename one first.`);
     const [row] = await tx.update(defaultOptions).set({ archived, updatedAt: new Date() }).where(eq(defaultOptions.id, id)).returning();
-    await audit(tx, req, { action: archived ? 'option.archived' : 'option.restored', entity: 'default_option', entityId: id, before: { archived: before.archived }, after: { archived } });
+    await audit(tx, contextOf(req), { action: archived ? 'option.archived' : 'option.restored', entity: 'default_option', entityId: id, before: { archived: before.archived }, after: { archived } });
     return row;
   });
 }

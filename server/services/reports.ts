@@ -1,4 +1,5 @@
 import type { Request } from 'express';
+import { contextOf } from './context';
 import { and, desc, eq } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { assumptionSets, reports, schemeRoles, users } from '../../db/schema';
@@ -42,7 +43,7 @@ export async function createReport(ctx: AppContext, req: Request, body: ReportRe
       .insert(reports)
       .values({ schemeId: scheme.id, runId: run.id, title, riskAversion: lambda, draft: run.assumptionsDraft, content, pdf, createdBy: req.user!.id, createdAt })
       .returning({ id: reports.id, title: reports.title, runId: reports.runId, riskAversion: reports.riskAversion, draft: reports.draft, createdAt: reports.createdAt });
-    await audit(tx, req, { action: 'report.created', entity: 'report', entityId: row.id, after: { runId: run.id, title, riskAversion: lambda, draft: row.draft, bytes: pdf.length } });
+    await audit(tx, contextOf(req), { action: 'report.created', entity: 'report', entityId: row.id, after: { runId: run.id, title, riskAversion: lambda, draft: row.draft, bytes: pdf.length } });
     return { ...row, sizeBytes: pdf.length };
   });
 }
@@ -112,7 +113,7 @@ export async function emailReport(ctx: AppContext, req: Request, id: string) {
       kind: 'board-report',
       attachments: [{ filename: `${slug(r.title)}.pdf`, contentType: 'application/pdf', content: r.pdf }],
     });
-    await audit(tx, req, { action: 'report.emailed', entity: 'report', entityId: r.id, after: { messageId: msg.id, recipients: msg.recipients } });
+    await audit(tx, contextOf(req), { action: 'report.emailed', entity: 'report', entityId: r.id, after: { messageId: msg.id, recipients: msg.recipients } });
     return { messageId: msg.id, recipients: msg.recipients, status: msg.status };
   });
 }

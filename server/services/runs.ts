@@ -1,4 +1,5 @@
 import { randomInt } from 'node:crypto';
+import { contextOf } from './context';
 import type { Request } from 'express';
 import { and, desc, eq, getTableColumns } from 'drizzle-orm';
 import type { AppContext } from '../context';
@@ -62,7 +63,7 @@ async function insertAndQueue(
     })
     .returning();
   await enqueueRun(ctx.pool, tx, row.id);
-  await audit(tx, req, {
+  await audit(tx, contextOf(req), {
     action: run.rerunOf ? 'run.repeated' : 'run.requested',
     entity: 'projection_run',
     entityId: row.id,

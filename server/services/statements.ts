@@ -1,4 +1,5 @@
 import type { Request } from 'express';
+import { contextOf } from './context';
 import type { Pool } from 'pg';
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
@@ -163,7 +164,7 @@ export async function requestExport(db: Db, pool: Pool, req: Request, body: Expo
   return db.transaction(async (tx) => {
     const [row] = await tx.insert(statementExports).values({ schemeId, runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount, createdBy: req.user!.id }).returning();
     await enqueue(pool, tx, EXPORT_QUEUE, { id: row.id });
-    await audit(tx, req, { action: 'statements.export-requested', entity: 'statement_export', entityId: row.id, after: { runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount } });
+    await audit(tx, contextOf(req), { action: 'statements.export-requested', entity: 'statement_export', entityId: row.id, after: { runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount } });
     return exportSummary(row);
   });
 }
