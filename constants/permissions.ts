@@ -24,6 +24,8 @@ export const PERMISSIONS = {
   'assumptions:approve': ['trustee'],
   'options:read': ['administrator', 'trustee', 'actuary', 'communications', 'board'],
   'options:edit': ['trustee'],
+  /** Four-eyes: the server also refuses a trustee who last edited the version (or set). */
+  'options:approve': ['trustee'],
   'members:read': ['administrator', 'trustee', 'actuary', 'communications'],
   'members:edit': ['trustee', 'actuary'],
   'membership:upload': ['administrator', 'actuary'],
@@ -32,6 +34,16 @@ export const PERMISSIONS = {
   'reports:read': ['trustee', 'actuary', 'board'],
   'reports:create': ['trustee', 'actuary'],
   'statements:export': ['communications'],
+  'settings:read': ['administrator', 'trustee', 'actuary', 'communications', 'board'],
+  /**
+   * Governance settings (approvals required, sign-off quorum, review interval, next review date)
+   * are kept by the administrator on the board's instruction, not by trustees: the people the
+   * four-eyes rule and the quorum bind cannot relax them on their own.
+   */
+  'settings:edit': ['administrator'],
+  'reviews:read': ['administrator', 'trustee', 'actuary', 'board'],
+  'reviews:edit': ['trustee'],
+  'reviews:sign': ['trustee'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

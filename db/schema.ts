@@ -23,6 +23,7 @@ import {
   varchar,
   json,
   customType,
+  check,
 } from 'drizzle-orm/pg-core';
 
 export const roleEnum = pgEnum('role', ['administrator', 'trustee', 'actuary', 'communications', 'board']);
@@ -163,6 +164,9 @@ export const assumptionSets = pgTable(
     createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+    /** Who last changed the content: four-eyes approval needs a trustee other than this person. */
+    updatedBy: uuid('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    /** The approval that completed the set's approvals (every approval is in `approvals`). */
     approvedBy: uuid('approved_by').references(() => users.id, { onDelete: 'set null' }),
     approvedAt: timestamp('approved_at', { withTimezone: true }),
   },
@@ -190,19 +194,98 @@ export const fundAssumptions = pgTable(
 
 export type GlidePathPoint = { yearsToRetirement: number; weights: Record<string, number> };
 
+/**
+ * A candidate default option: its identity across versions. What it invests in (name,
+ * description, glide path) lives in its versions; runs and reviews name the version they used.
+ */
 export const defaultOptions = pgTable('default_options', {
   id: uuid('id').primaryKey().defaultRandom(),
   schemeId: uuid('scheme_id')
     .notNull()
     .references(() => schemes.id, { onDelete: 'cascade' }),
-  name: varchar('name', { length: 120 }).notNull(),
-  description: text('description').notNull().default(''),
-  /** Points keyed by fund id; weights are fractions summing to 1. */
-  glidePath: jsonb('glide_path').$type<GlidePathPoint[]>().notNull(),
   archived: boolean('archived').notNull().default(false),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
+
+/**
+ * One version of a default option. A draft may be edited (which withdraws any approvals it
+ * had); once approved it never changes, and an edit starts the next version as a draft.
+ */
+export const optionVersions = pgTable(
+  'default_option_versions',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    optionId: uuid('option_id')
+      .notNull()
+      .references(() => defaultOptions.id, { onDelete: 'cascade' }),
+    schemeId: uuid('scheme_id')
+      .notNull()
+      .references(() => schemes.id, { onDelete: 'cascade' }),
+    version: integer('version').notNull(),
+    status: assumptionStatusEnum('status').notNull().default('draft'),
+    name: varchar('name', { length: 120 }).notNull(),
+    description: text('description').notNull().default(''),
+    /** Points keyed by fund id; weights are fractions summing to 1. */
+    glidePath: jsonb('glide_path').$type<GlidePathPoint[]>().notNull(),
+    basedOnId: uuid('based_on_id'),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    updatedBy: uuid('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+    approvedBy: uuid('approved_by').references(() => users.id, { onDelete: 'set null' }),
+    approvedAt: timestamp('approved_at', { withTimezone: true }),
+  },
+  (t) => [uniqueIndex('option_versions_option_version').on(t.optionId, t.version), index('option_versions_scheme').on(t.schemeId)],
+);
+
+/** Each trustee's approval of an assumption set or an option version (exactly one of the two). */
+export const approvals = pgTable(
+  'approvals',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    schemeId: uuid('scheme_id')
+      .notNull()
+      .references(() => schemes.id, { onDelete: 'cascade' }),
+    assumptionSetId: uuid('assumption_set_id').references(() => assumptionSets.id, { onDelete: 'cascade' }),
+    optionVersionId: uuid('option_version_id').references(() => optionVersions.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The approver's name when approving, so the record reads the same after they leave. */
+    approverName: varchar('approver_name', { length: 120 }).notNull(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex('approvals_set_user').on(t.assumptionSetId, t.userId),
+    uniqueIndex('approvals_version_user').on(t.optionVersionId, t.userId),
+    check('approvals_one_target', sql`(${t.assumptionSetId} is null) <> (${t.optionVersionId} is null)`),
+  ],
+);
+
+/** A scheme's governance settings; a scheme without a row has the defaults. */
+export const schemeSettings = pgTable(
+  'scheme_settings',
+  {
+    schemeId: uuid('scheme_id')
+      .primaryKey()
+      .references(() => schemes.id, { onDelete: 'cascade' }),
+    /** Trustee approvals an assumption set or option version needs (1 or 2). */
+    approvalsRequired: integer('approvals_required').notNull().default(1),
+    /** Trustees who must sign a review's decision before it is final. */
+    signOffQuorum: integer('sign_off_quorum').notNull().default(2),
+    /** Years from a review's sign-off to the next review, unless the review names a date. */
+    reviewIntervalYears: integer('review_interval_years').notNull().default(3),
+    /** The option members are in today: the baseline of comparisons. */
+    currentDefaultOptionId: uuid('current_default_option_id').references(() => defaultOptions.id, { onDelete: 'set null' }),
+    nextReviewDue: date('next_review_due'),
+    updatedBy: uuid('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    check('scheme_settings_approvals', sql`${t.approvalsRequired} between 1 and 2`),
+    check('scheme_settings_quorum', sql`${t.signOffQuorum} between 1 and 12`),
+    check('scheme_settings_interval', sql`${t.reviewIntervalYears} between 1 and 5`),
+  ],
+);
 
 export const illustrativeMembers = pgTable('illustrative_members', {
   id: uuid('id').primaryKey().defaultRandom(),
@@ -261,12 +344,32 @@ export const projectionRuns = pgTable(
     engineVersion: varchar('engine_version', { length: 32 }),
     error: text('error'),
     rerunOf: uuid('rerun_of'),
+    /** The scheme's current default option when the run was requested (null: none was marked). */
+    baselineOptionId: uuid('baseline_option_id').references(() => defaultOptions.id, { onDelete: 'set null' }),
     requestedBy: uuid('requested_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     startedAt: timestamp('started_at', { withTimezone: true }),
     finishedAt: timestamp('finished_at', { withTimezone: true }),
   },
   (t) => [index('projection_runs_scheme').on(t.schemeId, t.createdAt)],
+);
+
+/** The option versions a run used, in the run's order (runs made before versioning have none). */
+export const runOptionVersions = pgTable(
+  'run_option_versions',
+  {
+    runId: uuid('run_id')
+      .notNull()
+      .references(() => projectionRuns.id, { onDelete: 'cascade' }),
+    position: integer('position').notNull(),
+    optionId: uuid('option_id')
+      .notNull()
+      .references(() => defaultOptions.id, { onDelete: 'cascade' }),
+    optionVersionId: uuid('option_version_id')
+      .notNull()
+      .references(() => optionVersions.id),
+  },
+  (t) => [primaryKey({ columns: [t.runId, t.position] }), index('run_option_versions_version').on(t.optionVersionId)],
 );
 
 export const usersRelations = relations(users, ({ many }) => ({ roles: many(schemeRoles) }));
@@ -393,4 +496,123 @@ export const statementExports = pgTable(
     finishedAt: timestamp('finished_at', { withTimezone: true }),
   },
   (t) => [index('statement_exports_scheme').on(t.schemeId, t.createdAt)],
+);
+
+export const reviewStatusEnum = pgEnum('review_status', ['open', 'signed_off']);
+export const reviewDecisionEnum = pgEnum('review_decision', ['option', 'no_change']);
+
+/**
+ * A review of the default option: what the trustees looked at (an approved assumption set,
+ * option versions, runs, board reports) and what they decided. Signed by the scheme's quorum
+ * of trustees it becomes immutable, with its decision record (content and PDF) kept as signed.
+ */
+export const reviews = pgTable(
+  'reviews',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    schemeId: uuid('scheme_id')
+      .notNull()
+      .references(() => schemes.id, { onDelete: 'cascade' }),
+    title: varchar('title', { length: 200 }).notNull(),
+    status: reviewStatusEnum('status').notNull().default('open'),
+    assumptionSetId: uuid('assumption_set_id').references(() => assumptionSets.id),
+    decision: reviewDecisionEnum('decision'),
+    /** The option version chosen when the decision is 'option'. */
+    chosenVersionId: uuid('chosen_version_id').references(() => optionVersions.id),
+    /** The board's risk aversion λ for the decision, and how the board arrived at it. */
+    riskAversion: doublePrecision('risk_aversion'),
+    lambdaCalibration: text('lambda_calibration').notNull().default(''),
+    reasons: text('reasons').notNull().default(''),
+    dissent: text('dissent').notNull().default(''),
+    /** The date the trustees set for the next review; empty ⇒ the scheme's interval after sign-off. */
+    nextReviewDue: date('next_review_due'),
+    openedBy: uuid('opened_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    updatedBy: uuid('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+    signedOffAt: timestamp('signed_off_at', { withTimezone: true }),
+    /** The decision record as signed: every printed figure and sentence. */
+    record: jsonb('record'),
+    pdf: bytea('pdf'),
+  },
+  (t) => [index('reviews_scheme').on(t.schemeId, t.createdAt)],
+);
+
+export const reviewOptionVersions = pgTable(
+  'review_option_versions',
+  {
+    reviewId: uuid('review_id')
+      .notNull()
+      .references(() => reviews.id, { onDelete: 'cascade' }),
+    optionVersionId: uuid('option_version_id')
+      .notNull()
+      .references(() => optionVersions.id),
+    position: integer('position').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.reviewId, t.optionVersionId] })],
+);
+
+export const reviewRuns = pgTable(
+  'review_runs',
+  {
+    reviewId: uuid('review_id')
+      .notNull()
+      .references(() => reviews.id, { onDelete: 'cascade' }),
+    runId: uuid('run_id')
+      .notNull()
+      .references(() => projectionRuns.id),
+    position: integer('position').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.reviewId, t.runId] })],
+);
+
+export const reviewReports = pgTable(
+  'review_reports',
+  {
+    reviewId: uuid('review_id')
+      .notNull()
+      .references(() => reviews.id, { onDelete: 'cascade' }),
+    reportId: uuid('report_id')
+      .notNull()
+      .references(() => reports.id),
+    position: integer('position').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.reviewId, t.reportId] })],
+);
+
+/** A trustee's signature on a review's decision (withdrawn if the decision changes before it is final). */
+export const reviewSignOffs = pgTable(
+  'review_sign_offs',
+  {
+    reviewId: uuid('review_id')
+      .notNull()
+      .references(() => reviews.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id),
+    signerName: varchar('signer_name', { length: 120 }).notNull(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.reviewId, t.userId] })],
+);
+
+/**
+ * Review reminders sent: one row per trustee, due date and stage (90, 30 or 0 days before).
+ * The primary key is what makes the daily job send each reminder exactly once.
+ */
+export const reviewReminders = pgTable(
+  'review_reminders',
+  {
+    schemeId: uuid('scheme_id')
+      .notNull()
+      .references(() => schemes.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    dueOn: date('due_on').notNull(),
+    daysBefore: integer('days_before').notNull(),
+    messageId: uuid('message_id').references(() => outboxMessages.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.schemeId, t.userId, t.dueOn, t.daysBefore] })],
 );

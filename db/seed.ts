@@ -7,8 +7,11 @@ import { sql } from 'drizzle-orm';
 import { hashPassword } from '../server/auth/password';
 import { createDb, type Db } from './client';
 import {
+  approvals,
   assumptionSets,
   defaultOptions,
+  optionVersions,
+  schemeSettings,
   fundAssumptions,
   funds,
   illustrativeMembers,
@@ -29,6 +32,13 @@ export const DEMO_USERS: { email: string; displayName: string; role: Role }[] = 
   { email: 'comms@fernleigh.example', displayName: 'Taran Whitlock', role: 'communications' },
   { email: 'board@fernleigh.example', displayName: 'Orla Brennock', role: 'board' },
 ];
+/**
+ * A second trustee, so that four-eyes approval can be shown: one trustee edits, the other approves.
+ * Kept apart from DEMO_USERS, which holds one sign-in per role.
+ */
+export const DEMO_SECOND_TRUSTEE = { email: 'trustee2@fernleigh.example', displayName: 'Ninian Castellow', role: 'trustee' as Role };
+/** The demo option marked as the scheme's current default. */
+export const DEMO_CURRENT_DEFAULT = 'Balanced lifecycle';
 export const DEMO_SCHEME_NAME = 'Fernleigh Mills Staff Pension Plan';
 export const SECOND_SCHEME_NAME = 'Brackenfold Cooperative Savings Plan';
 
@@ -101,11 +111,12 @@ export async function seedDemo(db: Db, opts: { memberCount?: number } = {}): Pro
   return db.transaction(async (tx) => {
     const [scheme] = await tx.insert(schemes).values({ name: DEMO_SCHEME_NAME, currency: 'GBP' }).returning();
     const [second] = await tx.insert(schemes).values({ name: SECOND_SCHEME_NAME, currency: 'GBP' }).returning();
+    const everyone = [...DEMO_USERS, DEMO_SECOND_TRUSTEE];
     const created = await tx
       .insert(users)
-      .values(DEMO_USERS.map((u) => ({ email: u.email, displayName: u.displayName, passwordHash })))
+      .values(everyone.map((u) => ({ email: u.email, displayName: u.displayName, passwordHash })))
       .returning();
-    await tx.insert(schemeRoles).values(created.map((u, i) => ({ userId: u.id, schemeId: scheme.id, role: DEMO_USERS[i].role })));
+    await tx.insert(schemeRoles).values(created.map((u, i) => ({ userId: u.id, schemeId: scheme.id, role: everyone[i].role })));
     // The advisory actuary serves a second scheme too; the administrator there is the same person as here.
     const actuary = created.find((u) => u.email === 'actuary@fernleigh.example')!;
     await tx.insert(schemeRoles).values({ userId: actuary.id, schemeId: second.id, role: 'actuary' });
@@ -116,6 +127,7 @@ export async function seedDemo(db: Db, opts: { memberCount?: number } = {}): Pro
       .returning();
     const idOf = Object.fromEntries(FUNDS.map((f, i) => [f.key, fundRows[i].id]));
     const trustee = created.find((u) => u.email === 'trustee@fernleigh.example')!;
+    const secondTrustee = created.find((u) => u.email === DEMO_SECOND_TRUSTEE.email)!;
     const [set] = await tx
       .insert(assumptionSets)
       .values({
@@ -131,24 +143,48 @@ export async function seedDemo(db: Db, opts: { memberCount?: number } = {}): Pro
         fundOrder: fundRows.map((f) => f.id),
         correlations: CORRELATIONS,
         createdBy: actuary.id,
+        updatedBy: actuary.id,
         approvedBy: trustee.id,
         approvedAt: new Date('2026-10-14T10:00:00Z'),
       })
       .returning();
+    await tx.insert(approvals).values({ schemeId: scheme.id, assumptionSetId: set.id, userId: trustee.id, approverName: trustee.displayName, at: set.approvedAt! });
     await tx.insert(fundAssumptions).values(
       FUNDS.map((f, i) => ({ assumptionSetId: set.id, fundId: fundRows[i].id, expectedReturn: f.m, volatility: f.s, annualCharge: f.c })),
     );
-    await tx.insert(defaultOptions).values(
-      OPTIONS.map((o) => ({
-        schemeId: scheme.id,
-        name: o.name,
-        description: o.description,
-        glidePath: o.path.map<GlidePathPoint>((p) => ({
-          yearsToRetirement: p.ytr,
-          weights: Object.fromEntries(Object.entries(p.w).map(([k, v]) => [idOf[k], v])),
+    // Each option as its approved version 1: drafted by one trustee, approved by the other (four eyes).
+    const optionRows = await tx
+      .insert(defaultOptions)
+      .values(OPTIONS.map(() => ({ schemeId: scheme.id })))
+      .returning();
+    const approvedAt = new Date('2026-10-21T09:30:00Z');
+    const versionRows = await tx
+      .insert(optionVersions)
+      .values(
+        OPTIONS.map((o, i) => ({
+          optionId: optionRows[i].id,
+          schemeId: scheme.id,
+          version: 1,
+          status: 'approved' as const,
+          name: o.name,
+          description: o.description,
+          glidePath: o.path.map<GlidePathPoint>((p) => ({
+            yearsToRetirement: p.ytr,
+            weights: Object.fromEntries(Object.entries(p.w).map(([k, v]) => [idOf[k], v])),
+          })),
+          createdBy: trustee.id,
+          updatedBy: trustee.id,
+          approvedBy: secondTrustee.id,
+          approvedAt,
         })),
-      })),
-    );
+      )
+      .returning();
+    await tx.insert(approvals).values(versionRows.map((v) => ({ schemeId: scheme.id, optionVersionId: v.id, userId: secondTrustee.id, approverName: secondTrustee.displayName, at: approvedAt })));
+    await tx.insert(schemeSettings).values({
+      schemeId: scheme.id,
+      currentDefaultOptionId: optionRows[OPTIONS.findIndex((o) => o.name === DEMO_CURRENT_DEFAULT)].id,
+      nextReviewDue: '2027-03-31',
+    });
     await tx.insert(illustrativeMembers).values(MEMBERS.map((m) => ({ ...m, schemeId: scheme.id })));
 
     const rng = seedrandom('fernleigh-demo-membership');

@@ -12,6 +12,7 @@ import { runsRouter } from './routes/runs';
 import { reportsRouter } from './routes/reports';
 import { statementsRouter } from './routes/statements';
 import { outboxRouter } from './routes/outbox';
+import { reviewsRouter } from './routes/reviews';
 import { mailSender } from './email/outbox';
 import { installSessions, requireSameSiteWrite } from './auth/session';
 
@@ -57,7 +58,7 @@ export function createApp(ctx: AppContext): Express {
   api.use(peopleRouter(ctx));
   api.use(schemeDataRouters(ctx));
   api.use(runsRouter(ctx));
-  api.use(reportsRouter(ctx), statementsRouter(ctx), outboxRouter(ctx));
+  api.use(reportsRouter(ctx), statementsRouter(ctx), outboxRouter(ctx), reviewsRouter(ctx));
   api.use((_req, _res, next) => next(notFound('No such API route.')));
   app.use('/api', api);
 

@@ -19,6 +19,7 @@ export class HttpError extends Error {
 export const badRequest = (message: string, issues?: FieldIssue[]) => new HttpError(400, message, issues, 'invalid_input');
 export const notFound = (what = 'Not found') => new HttpError(404, what, undefined, 'not_found');
 export const conflict = (message: string) => new HttpError(409, message, undefined, 'conflict');
+export const forbidden = (message: string) => new HttpError(403, message, undefined, 'forbidden');
 
 export function zodIssues(err: ZodError): FieldIssue[] {
   return err.issues.map((i) => ({ path: i.path.map(String).join('.') || '(body)', message: i.message }));

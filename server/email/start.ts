@@ -2,6 +2,7 @@ import type { Pool } from 'pg';
 import type { Db } from '../../db/client';
 import type { Config } from '../config';
 import { startBackgroundWorkers } from '../jobs/background';
+import { startReviewReminders } from '../jobs/reminders';
 import { startFakeSmtp, type FakeSmtp } from './fakeSmtp';
 import { smtpTransport } from './transport';
 
@@ -22,9 +23,11 @@ export async function startMailAndExports(opts: { db: Db; pool: Pool; config: Co
     settings = { host: fake.host, port: fake.port, secure: false, from: c.SMTP_FROM };
   }
   const workers = await startBackgroundWorkers({ db: opts.db, pool: opts.pool, transport: smtpTransport(settings), log });
+  const reminders = await startReviewReminders({ db: opts.db, pool: opts.pool, log });
   return {
     fake,
     stop: async () => {
+      await reminders.stop();
       await workers.stop();
       await fake?.close();
     },

@@ -6,6 +6,7 @@ import { defineRoute } from '../routing';
 import { assumptionSets, fundAssumptions } from '../../db/schema';
 import { AnnuitySchema, FundSchema, ScenarioSchema, checkCorrelationMatrix } from '../../simulation';
 import { csvUpload } from '../uploads';
+import { contextOf } from '../services/context';
 import { listFunds } from '../services/funds';
 import { suggestFromHistory } from '../services/history';
 import { approve, compareSets, copyToDraft, createDraft, deleteDraft, getSet, latestApproved, listSets, updateDraft } from '../services/assumptions';
@@ -97,7 +98,7 @@ export function assumptionsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '/:setId/approve', access: 'assumptions:approve' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
-    res.json(await approve(ctx.db, req, setId));
+    res.json(await approve(ctx.db, contextOf(req), setId));
   });
 
   defineRoute(r, M, { method: 'get', path: '/:setId/compare/:otherId', access: 'assumptions:read' }, async (req, res) => {

@@ -10,6 +10,7 @@ import { ROLES } from '../../constants/permissions';
 import { audit } from '../services/audit';
 import { createToken, emailKey } from '../services/accounts';
 import { schemeOverview } from '../services/overview';
+import { describeActivity } from '../services/activity';
 import { linkUrl } from './auth';
 
 const InviteBody = z.object({ email: z.string().trim().email('is not an e-mail address').max(254, 'is too long'), role: z.enum(ROLES) });
@@ -143,7 +144,7 @@ export function peopleRouter(ctx: AppContext): Router {
       )
       .orderBy(desc(auditEvents.id))
       .limit(q.limit);
-    res.json({ events: rows, next: rows.length === q.limit ? rows[rows.length - 1].id : null });
+    res.json({ events: await describeActivity(ctx.db, rows), next: rows.length === q.limit ? rows[rows.length - 1].id : null });
   });
 
   return r;

@@ -18,6 +18,8 @@ export const RunBody = z.strictObject({
       const r = uniqueIds('option')(ids);
       if (r !== true) ctx.addIssue({ code: 'custom', message: r });
     }),
+  /** Option id → the version to run instead of its newest approved one (a draft, or an earlier version). */
+  optionVersions: z.record(Uuid, Uuid).optional(),
   memberIds: z
     .array(Uuid)
     .min(1, 'choose at least one illustrative member')

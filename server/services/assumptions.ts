@@ -5,8 +5,11 @@ import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { assumptionSets, fundAssumptions, funds, users } from '../../db/schema';
 import { conflict, notFound } from '../errors';
+import { approvalsOf, recordApproval, withdrawApprovals, type Approval } from './approvals';
 import { audit } from './audit';
+import type { ServiceContext } from './context';
 import { assertSchemeFunds } from './funds';
+import { settingsOf } from './governance';
 
 export type FundAssumptionInput = { fundId: string; expectedReturn: number; volatility: number; annualCharge: number };
 /** The editable content of an assumption set; `funds` order is the correlation matrix's order. */
@@ -34,9 +37,18 @@ export type AssumptionSetSummary = {
   approvedAt: Date | null;
 };
 export type AssumptionSetDetail = AssumptionSetSummary &
-  Omit<AssumptionContent, 'funds'> & { funds: (FundAssumptionInput & { name: string; assetClass: string })[]; basedOnVersion: number | null };
+  Omit<AssumptionContent, 'funds'> & {
+    funds: (FundAssumptionInput & { name: string; assetClass: string })[];
+    basedOnVersion: number | null;
+    /** Who last changed the content: the four-eyes rule keeps them from approving it. */
+    updatedBy: string | null;
+    updatedById: string | null;
+    approvals: Approval[];
+    approvalsRequired: number;
+  };
 
 const creator = alias(users, 'creator');
+const editor = alias(users, 'editor');
 const approver = alias(users, 'approver');
 const base = alias(assumptionSets, 'base');
 
@@ -76,9 +88,12 @@ export async function getSet(db: DbOrTx, schemeId: string, id: string): Promise<
       fundOrder: assumptionSets.fundOrder,
       correlations: assumptionSets.correlations,
       basedOnVersion: base.version,
+      updatedBy: editor.displayName,
+      updatedById: assumptionSets.updatedBy,
     })
     .from(assumptionSets)
     .leftJoin(creator, eq(creator.id, assumptionSets.createdBy))
+    .leftJoin(editor, eq(editor.id, assumptionSets.updatedBy))
     .leftJoin(approver, eq(approver.id, assumptionSets.approvedBy))
     .leftJoin(base, eq(base.id, assumptionSets.basedOnId))
     .where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId)));
@@ -90,7 +105,9 @@ export async function getSet(db: DbOrTx, schemeId: string, id: string): Promise<
     .where(eq(fundAssumptions.assumptionSetId, id));
   const byId = new Map(perFund.map((f) => [f.fundId, f]));
   const { fundOrder, ...rest } = row;
-  return { ...rest, funds: fundOrder.map((fid) => byId.get(fid)).filter((f): f is NonNullable<typeof f> => !!f) };
+  const approvals = (await approvalsOf(db, 'assumption_set', [id])).get(id)!;
+  const { approvalsRequired } = await settingsOf(db, schemeId);
+  return { ...rest, funds: fundOrder.map((fid) => byId.get(fid)).filter((f): f is NonNullable<typeof f> => !!f), approvals, approvalsRequired };
 }
 
 /** The newest approved set, or null. */
@@ -163,6 +180,7 @@ export async function createDraft(db: DbOrTx, req: Request, content: AssumptionC
         ...contentColumns(content),
         basedOnId,
         createdBy: req.user!.id,
+        updatedBy: req.user!.id,
       })
       .returning({ id: assumptionSets.id });
     await writeContent(tx, row.id, content);
@@ -195,10 +213,18 @@ export async function updateDraft(db: DbOrTx, req: Request, id: string, content:
     await assertContentFunds(tx, schemeId, content);
     await tx
       .update(assumptionSets)
-      .set({ ...contentColumns(content), updatedAt: new Date() })
+      .set({ ...contentColumns(content), updatedAt: new Date(), updatedBy: req.user!.id })
       .where(and(eq(assumptionSets.id, id), eq(assumptionSets.status, 'draft')));
     await writeContent(tx, id, content);
-    await audit(tx, contextOf(req), { action: 'assumptions.draft-updated', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) }, after: { version: before.version, ...content } });
+    // An approval was of the content as it stood; a changed draft needs approving afresh.
+    const approvalsWithdrawn = await withdrawApprovals(tx, 'assumption_set', id);
+    await audit(tx, contextOf(req), {
+      action: 'assumptions.draft-updated',
+      entity: 'assumption_set',
+      entityId: id,
+      before: { version: before.version, ...contentOf(before) },
+      after: { version: before.version, ...content, approvalsWithdrawn },
+    });
   });
   return getSet(db, schemeId, id);
 }
@@ -216,18 +242,29 @@ export async function deleteDraft(db: DbOrTx, req: Request, id: string): Promise
   });
 }
 
-/** A trustee approves a draft; from then on it is immutable. */
-export async function approve(db: DbOrTx, req: Request, id: string): Promise<AssumptionSetDetail> {
-  const schemeId = req.scheme!.id;
+/**
+ * A trustee other than the draft's last editor approves it (four-eyes). When the scheme
+ * requires two approvals the first leaves it a draft; the last one makes it immutable.
+ */
+export async function approve(db: DbOrTx, ctx: ServiceContext, id: string): Promise<AssumptionSetDetail> {
+  const schemeId = ctx.schemeId!;
   await db.transaction(async (tx) => {
     const [locked] = await tx.select({ id: assumptionSets.id }).from(assumptionSets).where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId))).for('update');
     if (!locked) throw notFound('No such assumption set in this scheme.');
     const before = await getSet(tx, schemeId, id);
     if (before.status !== 'draft') throw immutable(before);
     if (before.funds.length === 0) throw conflict(`Version ${before.version} has no funds; add at least one before approving.`);
-    const approvedAt = new Date();
-    await tx.update(assumptionSets).set({ status: 'approved', approvedBy: req.user!.id, approvedAt }).where(eq(assumptionSets.id, id));
-    await audit(tx, contextOf(req), { action: 'assumptions.approved', entity: 'assumption_set', entityId: id, before: { version: before.version, status: 'draft' }, after: { version: before.version, status: 'approved', approvedAt } });
+    const result = await recordApproval(tx, ctx, { kind: 'assumption_set', id, schemeId, label: `assumption set v${before.version}`, lastEditorId: before.updatedById });
+    if (result.complete) {
+      await tx.update(assumptionSets).set({ status: 'approved', approvedBy: ctx.actor!.id, approvedAt: result.at }).where(eq(assumptionSets.id, id));
+    }
+    await audit(tx, ctx, {
+      action: result.complete ? 'assumptions.approved' : 'assumptions.approval-recorded',
+      entity: 'assumption_set',
+      entityId: id,
+      before: { version: before.version, status: 'draft' },
+      after: { version: before.version, status: result.complete ? 'approved' : 'draft', approvals: result.count, required: result.required, ...(result.complete ? { approvedAt: result.at } : {}) },
+    });
   });
   return getSet(db, schemeId, id);
 }

@@ -2,7 +2,7 @@ import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { contextOf } from './context';
 import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
-import { defaultOptions, fundAssumptions, funds } from '../../db/schema';
+import { fundAssumptions, funds, optionVersions } from '../../db/schema';
 import { badRequest, conflict, notFound, type FieldIssue } from '../errors';
 import { audit } from './audit';
 
@@ -59,8 +59,9 @@ export async function deleteFund(db: DbOrTx, req: Request, id: string): Promise<
     const [before] = await tx.select().from(funds).where(and(eq(funds.id, id), eq(funds.schemeId, schemeId))).for('update');
     if (!before) throw notFound('No such fund in this scheme.');
     const [inSets] = await tx.select({ n: sql<number>`count(*)::int` }).from(fundAssumptions).where(eq(fundAssumptions.fundId, id));
-    const options = await tx.select({ name: defaultOptions.name, glidePath: defaultOptions.glidePath }).from(defaultOptions).where(eq(defaultOptions.schemeId, schemeId));
-    const usedBy = options.filter((o) => o.glidePath.some((p) => (p.weights[id] ?? 0) > 0)).map((o) => o.name);
+    // Every version counts: an approved version is a record and must keep reading the same.
+    const options = await tx.select({ name: optionVersions.name, glidePath: optionVersions.glidePath }).from(optionVersions).where(eq(optionVersions.schemeId, schemeId));
+    const usedBy = [...new Set(options.filter((o) => o.glidePath.some((p) => (p.weights[id] ?? 0) > 0)).map((o) => o.name))];
     if (inSets.n > 0 || usedBy.length) {
       const why = [inSets.n > 0 ? `${inSets.n} assumption set${inSets.n === 1 ? '' : 's'}` : '', usedBy.length ? `the option${usedBy.length === 1 ? '' : 's'} ${usedBy.map((n) => `"${n}"`).join(', ')}` : '']
         .filter(Boolean)

@@ -1,16 +1,56 @@
-import { and, asc, eq, sql } from 'drizzle-orm';
-import { contextOf } from './context';
-import type { Request } from 'express';
+import { and, asc, count, desc, eq, inArray, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
 import type { DbOrTx } from '../../db/client';
-import { defaultOptions, type GlidePathPoint } from '../../db/schema';
+import { defaultOptions, optionVersions, reviewOptionVersions, runOptionVersions, users, type GlidePathPoint } from '../../db/schema';
 import { conflict, notFound } from '../errors';
+import { approvalsOf, recordApproval, withdrawApprovals, type Approval } from './approvals';
 import { audit } from './audit';
+import type { ServiceContext } from './context';
 import { assertSchemeFunds } from './funds';
+import { settingsOf } from './governance';
 
+/**
+ * Default options and their versions. An option is an identity; what it invests in lives in
+ * its versions. A draft version may be edited; once trustees approve it (four-eyes) it never
+ * changes, and the next edit starts a new draft. Runs and reviews name the versions they used.
+ */
 export type OptionInput = { name: string; description: string; glidePath: GlidePathPoint[] };
-export type OptionRow = typeof defaultOptions.$inferSelect;
+type VersionRow = typeof optionVersions.$inferSelect;
 
-const snapshot = (o: OptionInput | OptionRow) => ({ name: o.name, description: o.description, glidePath: o.glidePath });
+export type VersionSummary = { id: string; version: number; status: 'draft' | 'approved'; name: string; updatedAt: Date; approvedAt: Date | null };
+export type OptionSummary = {
+  id: string;
+  archived: boolean;
+  createdAt: Date;
+  updatedAt: Date;
+  /** The newest version's content (a draft when one is pending). */
+  name: string;
+  description: string;
+  glidePath: GlidePathPoint[];
+  latest: VersionSummary;
+  /** The newest approved version: what runs use unless told otherwise. */
+  approved: VersionSummary | null;
+  isCurrentDefault: boolean;
+};
+export type VersionDetail = VersionSummary & {
+  optionId: string;
+  description: string;
+  glidePath: GlidePathPoint[];
+  basedOnId: string | null;
+  basedOnVersion: number | null;
+  createdBy: string | null;
+  createdAt: Date;
+  updatedBy: string | null;
+  updatedById: string | null;
+  approvedBy: string | null;
+  approvals: Approval[];
+  approvalsRequired: number;
+  usedByRuns: number;
+};
+
+const versionSummary = (v: VersionRow): VersionSummary => ({ id: v.id, version: v.version, status: v.status, name: v.name, updatedAt: v.updatedAt, approvedAt: v.approvedAt });
+const content = (o: OptionInput | VersionRow) => ({ name: o.name, description: o.description, glidePath: o.glidePath });
+const label = (v: Pick<VersionRow, 'name' | 'version'>) => `${v.name} v${v.version}`;
 
 /** Points sorted from furthest to nearest retirement, with zero weights dropped. */
 function normalise(path: GlidePathPoint[]): GlidePathPoint[] {
@@ -19,6 +59,8 @@ function normalise(path: GlidePathPoint[]): GlidePathPoint[] {
     .map((p) => ({ yearsToRetirement: p.yearsToRetirement, weights: Object.fromEntries(Object.entries(p.weights).filter(([, w]) => w > 0)) }));
 }
 
+const sameContent = (a: OptionInput, b: OptionInput) => a.name === b.name && a.description === b.description && JSON.stringify(normalise(a.glidePath)) === JSON.stringify(normalise(b.glidePath));
+
 async function checkFunds(db: DbOrTx, schemeId: string, input: OptionInput) {
   const ids: string[] = [];
   const paths: string[] = [];
@@ -26,62 +68,256 @@ async function checkFunds(db: DbOrTx, schemeId: string, input: OptionInput) {
   await assertSchemeFunds(db, schemeId, ids, paths);
 }
 
-async function nameTaken(db: DbOrTx, schemeId: string, name: string, exceptId?: string) {
-  const rows = await db.select({ id: defaultOptions.id }).from(defaultOptions).where(and(eq(defaultOptions.schemeId, schemeId), sql`lower(${defaultOptions.name}) = lower(${name})`, eq(defaultOptions.archived, false)));
-  return rows.some((r) => r.id !== exceptId);
+/** Every version of the given options, newest first, by option id. */
+async function versionsByOption(db: DbOrTx, optionIds: string[]): Promise<Map<string, VersionRow[]>> {
+  const out = new Map<string, VersionRow[]>(optionIds.map((id) => [id, []]));
+  if (!optionIds.length) return out;
+  const rows = await db.select().from(optionVersions).where(inArray(optionVersions.optionId, optionIds)).orderBy(desc(optionVersions.version));
+  for (const r of rows) out.get(r.optionId)!.push(r);
+  return out;
 }
 
-export async function listOptions(db: DbOrTx, schemeId: string, includeArchived: boolean): Promise<OptionRow[]> {
-  return db
+/** An active option (other than `exceptId`) whose newest version has this name, case aside. */
+async function nameTaken(db: DbOrTx, schemeId: string, name: string, exceptId?: string) {
+  const rows = await db.execute(sql`
+    select o.id from default_options o
+    join lateral (select v.name from default_option_versions v where v.option_id = o.id order by v.version desc limit 1) latest on true
+    where o.scheme_id = ${schemeId} and not o.archived and lower(latest.name) = lower(${name})`);
+  return (rows.rows as { id: string }[]).some((r) => r.id !== exceptId);
+}
+
+export async function listOptions(db: DbOrTx, schemeId: string, includeArchived: boolean): Promise<OptionSummary[]> {
+  const rows = await db
     .select()
     .from(defaultOptions)
     .where(and(eq(defaultOptions.schemeId, schemeId), includeArchived ? undefined : eq(defaultOptions.archived, false)))
-    .orderBy(asc(defaultOptions.archived), asc(defaultOptions.createdAt), asc(defaultOptions.name));
+    .orderBy(asc(defaultOptions.archived), asc(defaultOptions.createdAt));
+  const versions = await versionsByOption(
+    db,
+    rows.map((r) => r.id),
+  );
+  const { currentDefaultOptionId } = await settingsOf(db, schemeId);
+  return rows
+    .filter((r) => versions.get(r.id)!.length > 0)
+    .map((r) => {
+      const vs = versions.get(r.id)!;
+      const approved = vs.find((v) => v.status === 'approved') ?? null;
+      return {
+        id: r.id,
+        archived: r.archived,
+        createdAt: r.createdAt,
+        updatedAt: r.updatedAt,
+        ...content(vs[0]),
+        latest: versionSummary(vs[0]),
+        approved: approved && versionSummary(approved),
+        isCurrentDefault: r.id === currentDefaultOptionId,
+      };
+    });
 }
 
-export async function getOption(db: DbOrTx, schemeId: string, id: string): Promise<OptionRow> {
+/** One option with every version (newest first). */
+export async function getOption(db: DbOrTx, schemeId: string, id: string) {
   const [row] = await db.select().from(defaultOptions).where(and(eq(defaultOptions.id, id), eq(defaultOptions.schemeId, schemeId)));
   if (!row) throw notFound('No such default option in this scheme.');
-  return row;
+  const vs = (await versionsByOption(db, [id])).get(id)!;
+  const approved = vs.find((v) => v.status === 'approved') ?? null;
+  const { currentDefaultOptionId } = await settingsOf(db, schemeId);
+  const summary: OptionSummary = {
+    id: row.id,
+    archived: row.archived,
+    createdAt: row.createdAt,
+    updatedAt: row.updatedAt,
+    ...content(vs[0]),
+    latest: versionSummary(vs[0]),
+    approved: approved && versionSummary(approved),
+    isCurrentDefault: row.id === currentDefaultOptionId,
+  };
+  return { ...summary, versions: vs.map(versionSummary) };
 }
 
-export async function createOption(db: DbOrTx, req: Request, input: OptionInput): Promise<OptionRow> {
-  const schemeId = req.scheme!.id;
+const creator = alias(users, 'creator');
+const editor = alias(users, 'editor');
+const approver = alias(users, 'approver');
+const base = alias(optionVersions, 'base');
+
+/** One version with who made, changed and approved it, its approvals, and how many runs used it. */
+export async function getVersion(db: DbOrTx, schemeId: string, optionId: string, versionId: string): Promise<VersionDetail> {
+  const [r] = await db
+    .select({ v: optionVersions, createdBy: creator.displayName, updatedBy: editor.displayName, approvedBy: approver.displayName, basedOnVersion: base.version })
+    .from(optionVersions)
+    .leftJoin(creator, eq(creator.id, optionVersions.createdBy))
+    .leftJoin(editor, eq(editor.id, optionVersions.updatedBy))
+    .leftJoin(approver, eq(approver.id, optionVersions.approvedBy))
+    .leftJoin(base, eq(base.id, optionVersions.basedOnId))
+    .where(and(eq(optionVersions.id, versionId), eq(optionVersions.optionId, optionId), eq(optionVersions.schemeId, schemeId)));
+  if (!r) throw notFound('No such version of this default option.');
+  const [used] = await db.select({ n: count() }).from(runOptionVersions).where(eq(runOptionVersions.optionVersionId, versionId));
+  const { approvalsRequired } = await settingsOf(db, schemeId);
+  return {
+    ...versionSummary(r.v),
+    optionId: r.v.optionId,
+    description: r.v.description,
+    glidePath: r.v.glidePath,
+    basedOnId: r.v.basedOnId,
+    basedOnVersion: r.basedOnVersion,
+    createdBy: r.createdBy,
+    createdAt: r.v.createdAt,
+    updatedBy: r.updatedBy,
+    updatedById: r.v.updatedBy,
+    approvedBy: r.approvedBy,
+    approvals: (await approvalsOf(db, 'option_version', [versionId])).get(versionId)!,
+    approvalsRequired,
+    usedByRuns: Number(used.n),
+  };
+}
+
+/** A new option, as a draft version 1 awaiting approval. */
+export async function createOption(db: DbOrTx, ctx: ServiceContext, input: OptionInput) {
+  const schemeId = ctx.schemeId!;
   await checkFunds(db, schemeId, input);
   return db.transaction(async (tx) => {
     if (await nameTaken(tx, schemeId, input.name)) throw conflict(`There is already an option called "${input.name}".`);
-    const [row] = await tx.insert(defaultOptions).values({ schemeId, name: input.name, description: input.description, glidePath: normalise(input.glidePath) }).returning();
-    await audit(tx, contextOf(req), { action: 'option.created', entity: 'default_option', entityId: row.id, after: snapshot(row) });
-    return row;
+    const [row] = await tx.insert(defaultOptions).values({ schemeId }).returning();
+    const [v] = await tx
+      .insert(optionVersions)
+      .values({ optionId: row.id, schemeId, version: 1, status: 'draft', ...content(input), glidePath: normalise(input.glidePath), createdBy: ctx.actor?.id, updatedBy: ctx.actor?.id })
+      .returning();
+    await audit(tx, ctx, { action: 'option.created', entity: 'default_option', entityId: row.id, after: { version: 1, versionId: v.id, ...content(v) } });
+    return getOption(tx, schemeId, row.id);
   });
 }
 
-export async function updateOption(db: DbOrTx, req: Request, id: string, input: OptionInput): Promise<OptionRow> {
-  const schemeId = req.scheme!.id;
+/** Locks an option of the scheme and returns it with its versions (newest first). */
+async function lockOption(tx: DbOrTx, schemeId: string, id: string) {
+  const [row] = await tx.select().from(defaultOptions).where(and(eq(defaultOptions.id, id), eq(defaultOptions.schemeId, schemeId))).for('update');
+  if (!row) throw notFound('No such default option in this scheme.');
+  return { row, versions: (await versionsByOption(tx, [id])).get(id)! };
+}
+
+/**
+ * Edits an option. A pending draft is changed in place (and loses any approvals it had);
+ * otherwise the edit starts the next version as a draft based on the newest one.
+ */
+export async function updateOption(db: DbOrTx, ctx: ServiceContext, id: string, input: OptionInput) {
+  const schemeId = ctx.schemeId!;
   return db.transaction(async (tx) => {
-    const [before] = await tx.select().from(defaultOptions).where(and(eq(defaultOptions.id, id), eq(defaultOptions.schemeId, schemeId))).for('update');
-    if (!before) throw notFound('No such default option in this scheme.');
+    const { versions } = await lockOption(tx, schemeId, id);
     await checkFunds(tx, schemeId, input);
     if (await nameTaken(tx, schemeId, input.name, id)) throw conflict(`There is already an option called "${input.name}".`);
-    const [row] = await tx
-      .update(defaultOptions)
-      .set({ name: input.name, description: input.description, glidePath: normalise(input.glidePath), updatedAt: new Date() })
-      .where(eq(defaultOptions.id, id))
-      .returning();
-    await audit(tx, contextOf(req), { action: 'option.updated', entity: 'default_option', entityId: id, before: snapshot(before), after: snapshot(row) });
-    return row;
+    const newest = versions[0];
+    const now = new Date();
+    if (newest.status === 'draft') {
+      await tx
+        .update(optionVersions)
+        .set({ ...content(input), glidePath: normalise(input.glidePath), updatedBy: ctx.actor?.id, updatedAt: now })
+        .where(eq(optionVersions.id, newest.id));
+      const withdrawn = await withdrawApprovals(tx, 'option_version', newest.id);
+      await audit(tx, ctx, {
+        action: 'option.draft-updated',
+        entity: 'default_option',
+        entityId: id,
+        before: { version: newest.version, versionId: newest.id, ...content(newest) },
+        after: { version: newest.version, versionId: newest.id, ...content(input), approvalsWithdrawn: withdrawn },
+      });
+    } else {
+      if (sameContent(input, newest)) throw conflict(`Nothing changed: this is version ${newest.version} as approved.`);
+      const [v] = await tx
+        .insert(optionVersions)
+        .values({ optionId: id, schemeId, version: newest.version + 1, status: 'draft', ...content(input), glidePath: normalise(input.glidePath), basedOnId: newest.id, createdBy: ctx.actor?.id, updatedBy: ctx.actor?.id })
+        .returning();
+      await audit(tx, ctx, {
+        action: 'option.version-drafted',
+        entity: 'default_option',
+        entityId: id,
+        before: { version: newest.version, versionId: newest.id, ...content(newest) },
+        after: { version: v.version, versionId: v.id, ...content(v) },
+      });
+    }
+    await tx.update(defaultOptions).set({ updatedAt: now }).where(eq(defaultOptions.id, id));
+    return getOption(tx, schemeId, id);
+  });
+}
+
+/** A trustee other than its last editor approves a draft version (four-eyes; two approvals when the scheme says so). */
+export async function approveVersion(db: DbOrTx, ctx: ServiceContext, optionId: string, versionId: string) {
+  const schemeId = ctx.schemeId!;
+  await db.transaction(async (tx) => {
+    await lockOption(tx, schemeId, optionId);
+    const [v] = await tx
+      .select()
+      .from(optionVersions)
+      .where(and(eq(optionVersions.id, versionId), eq(optionVersions.optionId, optionId)))
+      .for('update');
+    if (!v) throw notFound('No such version of this default option.');
+    if (v.status !== 'draft') throw conflict(`${label(v)} is already approved and can no longer change.`);
+    const result = await recordApproval(tx, ctx, { kind: 'option_version', id: v.id, schemeId, label: label(v), lastEditorId: v.updatedBy });
+    if (result.complete) {
+      await tx.update(optionVersions).set({ status: 'approved', approvedBy: ctx.actor!.id, approvedAt: result.at }).where(eq(optionVersions.id, v.id));
+    }
+    await audit(tx, ctx, {
+      action: result.complete ? 'option.version-approved' : 'option.approval-recorded',
+      entity: 'default_option',
+      entityId: optionId,
+      after: { version: v.version, versionId: v.id, name: v.name, approvals: result.count, required: result.required },
+    });
+  });
+  return getVersion(db, schemeId, optionId, versionId);
+}
+
+/** Discards a draft version that no run or review used; an option keeps at least one version. */
+export async function discardDraft(db: DbOrTx, ctx: ServiceContext, optionId: string, versionId: string) {
+  const schemeId = ctx.schemeId!;
+  await db.transaction(async (tx) => {
+    const { versions } = await lockOption(tx, schemeId, optionId);
+    const v = versions.find((x) => x.id === versionId);
+    if (!v) throw notFound('No such version of this default option.');
+    if (v.status !== 'draft') throw conflict(`${label(v)} is approved and is kept as a record.`);
+    if (versions.length === 1) throw conflict('This is the option’s only version; archive the option instead.');
+    const [runs] = await tx.select({ n: count() }).from(runOptionVersions).where(eq(runOptionVersions.optionVersionId, versionId));
+    const [inReviews] = await tx.select({ n: count() }).from(reviewOptionVersions).where(eq(reviewOptionVersions.optionVersionId, versionId));
+    if (Number(runs.n) + Number(inReviews.n) > 0) throw conflict(`${label(v)} was used by a projection run or a review, so it is kept as a record.`);
+    await tx.delete(optionVersions).where(eq(optionVersions.id, versionId));
+    await audit(tx, ctx, { action: 'option.draft-discarded', entity: 'default_option', entityId: optionId, before: { version: v.version, versionId, ...content(v) } });
   });
 }
 
 /** Archives (or restores) an option: past runs keep their own snapshot, so nothing is deleted. */
-export async function setArchived(db: DbOrTx, req: Request, id: string, archived: boolean): Promise<OptionRow> {
-  const schemeId = req.scheme!.id;
+export async function setArchived(db: DbOrTx, ctx: ServiceContext, id: string, archived: boolean) {
+  const schemeId = ctx.schemeId!;
   return db.transaction(async (tx) => {
-    const [before] = await tx.select().from(defaultOptions).where(and(eq(defaultOptions.id, id), eq(defaultOptions.schemeId, schemeId))).for('update');
-    if (!before) throw notFound('No such default option in this scheme.');
-    if (!archived && (await nameTaken(tx, schemeId, before.name, id))) throw conflict(`An active option is already called "${before.name}"; rename one first.`);
-    const [row] = await tx.update(defaultOptions).set({ archived, updatedAt: new Date() }).where(eq(defaultOptions.id, id)).returning();
-    await audit(tx, contextOf(req), { action: archived ? 'option.archived' : 'option.restored', entity: 'default_option', entityId: id, before: { archived: before.archived }, after: { archived } });
-    return row;
+    const { row: before, versions } = await lockOption(tx, schemeId, id);
+    if (archived && (await settingsOf(tx, schemeId)).currentDefaultOptionId === id) {
+      throw conflict('This option is the scheme’s current default; mark another option as the current default before archiving it.');
+    }
+    if (!archived && (await nameTaken(tx, schemeId, versions[0].name, id))) throw conflict(`An active option is already called "${versions[0].name}"; rename one first.`);
+    await tx.update(defaultOptions).set({ archived, updatedAt: new Date() }).where(eq(defaultOptions.id, id));
+    await audit(tx, ctx, { action: archived ? 'option.archived' : 'option.restored', entity: 'default_option', entityId: id, before: { archived: before.archived, name: versions[0].name }, after: { archived, name: versions[0].name } });
+    return getOption(tx, schemeId, id);
   });
+}
+
+export type VersionComparison = {
+  a: VersionDetail;
+  b: VersionDetail;
+  changed: { name: boolean; description: boolean; glidePath: boolean };
+  /** Years to retirement named by either version, furthest first. */
+  years: number[];
+};
+
+/** Two versions side by side (usually of one option): what changed and the glide-path points of both. */
+export function compareVersions(a: VersionDetail, b: VersionDetail): VersionComparison {
+  const years = [...new Set([...a.glidePath, ...b.glidePath].map((p) => p.yearsToRetirement))].sort((x, y) => y - x);
+  return {
+    a,
+    b,
+    changed: { name: a.name !== b.name, description: a.description !== b.description, glidePath: JSON.stringify(normalise(a.glidePath)) !== JSON.stringify(normalise(b.glidePath)) },
+    years,
+  };
+}
+
+/** A version of any option of the scheme, by its id alone (for comparisons across options). */
+export async function getVersionById(db: DbOrTx, schemeId: string, versionId: string): Promise<VersionDetail> {
+  const [v] = await db.select({ optionId: optionVersions.optionId }).from(optionVersions).where(and(eq(optionVersions.id, versionId), eq(optionVersions.schemeId, schemeId)));
+  if (!v) throw notFound('No such option version in this scheme.');
+  return getVersion(db, schemeId, v.optionId, versionId);
 }

@@ -3,6 +3,7 @@ import type { DbOrTx } from '../../db/client';
 import { defaultOptions, funds, illustrativeMembers, projectionRuns, reports, schemeMembers } from '../../db/schema';
 import { can, type Role } from '../../constants/permissions';
 import { listSets } from './assumptions';
+import { governanceSummary } from './governance';
 
 /**
  * What a person opening the scheme needs first: where the assumptions stand,
@@ -50,5 +51,5 @@ export async function schemeOverview(db: DbOrTx, scheme: { id: string; name: str
         .orderBy(desc(reports.createdAt))
         .limit(3)
     : null;
-  return { scheme, counts, assumptions, runs, reports: latestReports };
+  return { scheme, counts, assumptions, runs, reports: latestReports, governance: await governanceSummary(db, scheme.id) };
 }

@@ -3,10 +3,12 @@ import { contextOf } from './context';
 import type { Request } from 'express';
 import { and, desc, eq, getTableColumns } from 'drizzle-orm';
 import type { AppContext } from '../context';
-import { assumptionSets, defaultOptions, funds, illustrativeMembers, projectionRuns } from '../../db/schema';
+import { assumptionSets, funds, illustrativeMembers, projectionRuns, runOptionVersions } from '../../db/schema';
 import { conflict, notFound } from '../errors';
 import { enqueueRun, producerFor } from '../jobs/queue';
 import { audit } from './audit';
+import { settingsOf } from './governance';
+import { listOptions } from './options';
 import { buildScenario, type ScenarioChoice, type ScenarioSnapshot } from './scenario';
 
 export type RunRequest = Omit<ScenarioChoice, 'seed'> & { seed?: number };
@@ -25,7 +27,9 @@ export async function requestRun(ctx: AppContext, req: Request, body: RunRequest
   await producerFor(ctx.pool);
   return ctx.db.transaction(async (tx) => {
     const snapshot = await buildScenario(tx, schemeId, { ...body, seed });
-    return insertAndQueue(ctx, tx, req, snapshot, { seed, paths: body.paths, riskAversion: body.riskAversion, rerunOf: null });
+    // The baseline is the option marked as the scheme's current default when the run is asked for.
+    const baselineOptionId = (await settingsOf(tx, schemeId)).currentDefaultOptionId;
+    return insertAndQueue(ctx, tx, req, snapshot, { seed, paths: body.paths, riskAversion: body.riskAversion, rerunOf: null, baselineOptionId });
   });
 }
 
@@ -36,7 +40,7 @@ export async function rerun(ctx: AppContext, req: Request, runId: string) {
     const [orig] = await tx.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, req.scheme!.id)));
     if (!orig) throw notFound('No such run in this scheme.');
     if (orig.status !== 'done') throw conflict('Only a finished run can be run again for comparison.');
-    return insertAndQueue(ctx, tx, req, orig.input as ScenarioSnapshot, { seed: orig.seed, paths: orig.paths, riskAversion: orig.riskAversion, rerunOf: orig.id });
+    return insertAndQueue(ctx, tx, req, orig.input as ScenarioSnapshot, { seed: orig.seed, paths: orig.paths, riskAversion: orig.riskAversion, rerunOf: orig.id, baselineOptionId: orig.baselineOptionId });
   });
 }
 
@@ -45,7 +49,7 @@ async function insertAndQueue(
   tx: Parameters<Parameters<AppContext['db']['transaction']>[0]>[0],
   req: Request,
   snapshot: ScenarioSnapshot,
-  run: { seed: number; paths: number; riskAversion: number; rerunOf: string | null },
+  run: { seed: number; paths: number; riskAversion: number; rerunOf: string | null; baselineOptionId: string | null },
 ) {
   const [row] = await tx
     .insert(projectionRuns)
@@ -59,9 +63,13 @@ async function insertAndQueue(
       riskAversion: run.riskAversion,
       input: snapshot,
       rerunOf: run.rerunOf,
+      baselineOptionId: run.baselineOptionId,
       requestedBy: req.user!.id,
     })
     .returning();
+  // The versions run, queryable beside the snapshot (a rerun of a run made before versioning has none).
+  const versioned = snapshot.options.flatMap((o, position) => (o.versionId ? [{ runId: row.id, position, optionId: o.id, optionVersionId: o.versionId }] : []));
+  if (versioned.length) await tx.insert(runOptionVersions).values(versioned);
   await enqueueRun(ctx.pool, tx, row.id);
   await audit(tx, contextOf(req), {
     action: run.rerunOf ? 'run.repeated' : 'run.requested',
@@ -70,7 +78,7 @@ async function insertAndQueue(
     after: {
       assumptionSet: snapshot.assumptionSet.version,
       draft: row.assumptionsDraft,
-      options: snapshot.options.map((o) => o.name),
+      options: snapshot.options.map((o) => (o.version ? `${o.name} v${o.version}${o.status === 'draft' ? ' (draft)' : ''}` : o.name)),
       members: snapshot.members.map((m) => m.label),
       seed: run.seed,
       paths: run.paths,
@@ -100,7 +108,9 @@ export function summary(r: Omit<RunRow, 'result'>) {
     riskAversion: r.riskAversion,
     assumptionsDraft: r.assumptionsDraft,
     assumptionSet: input.assumptionSet,
-    options: input.options.map((o) => ({ id: o.id, name: o.name })),
+    options: input.options.map((o) => ({ id: o.id, name: o.name, versionId: o.versionId ?? null, version: o.version ?? null, status: o.status ?? null })),
+    /** The scheme's current default when the run was made: the comparison pins it first. */
+    baselineOptionId: r.baselineOptionId,
     members: input.members.map((m) => ({ id: m.id, label: m.label })),
     stress: input.stress,
     targetReplacementRatio: input.scenario.targetReplacementRatio,
@@ -130,11 +140,15 @@ export async function runChoices(ctx: AppContext, schemeId: string) {
     .from(assumptionSets)
     .where(eq(assumptionSets.schemeId, schemeId))
     .orderBy(desc(assumptionSets.version));
-  const options = await ctx.db
-    .select({ id: defaultOptions.id, name: defaultOptions.name, description: defaultOptions.description })
-    .from(defaultOptions)
-    .where(and(eq(defaultOptions.schemeId, schemeId), eq(defaultOptions.archived, false)))
-    .orderBy(defaultOptions.createdAt, defaultOptions.name);
+  // Each active option as a run would use it (newest approved version), with a newer draft offered beside it.
+  const options = (await listOptions(ctx.db, schemeId, false)).map((o) => ({
+    id: o.id,
+    name: o.approved?.name ?? o.name,
+    description: o.description,
+    version: o.approved ?? o.latest,
+    draft: o.latest.status === 'draft' ? o.latest : null,
+    isCurrentDefault: o.isCurrentDefault,
+  }));
   const members = await ctx.db
     .select({ id: illustrativeMembers.id, label: illustrativeMembers.label, age: illustrativeMembers.age, retirementAge: illustrativeMembers.retirementAge })
     .from(illustrativeMembers)

@@ -1,6 +1,6 @@
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, desc, eq, inArray } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client';
-import { assumptionSets, defaultOptions, fundAssumptions, funds, illustrativeMembers } from '../../db/schema';
+import { assumptionSets, defaultOptions, fundAssumptions, funds, illustrativeMembers, optionVersions } from '../../db/schema';
 import { validateScenario, type ScenarioInput, type Stress } from '../../simulation';
 import { badRequest } from '../errors';
 
@@ -14,13 +14,19 @@ export type ScenarioChoice = {
   riskAversion: number;
   targetReplacementRatio: number;
   stress?: Stress;
+  /** A version to use instead of an option's newest approved one (a draft, or an older version), by option id. */
+  optionVersions?: Record<string, string>;
 };
 
 /** Labels and provenance kept next to the engine input, so a run reads the same after the data changes. */
 export type ScenarioSnapshot = {
   assumptionSet: { id: string; version: number; status: 'draft' | 'approved'; setAt: string; approvedAt: string | null };
   funds: { id: string; name: string }[];
-  options: { id: string; name: string; description: string }[];
+  /**
+   * The engine's option ids are the options' ids; the version each ran as is named beside it.
+   * Runs made before options were versioned have no versionId, version or status.
+   */
+  options: { id: string; name: string; description: string; versionId?: string; version?: number; status?: 'draft' | 'approved' }[];
   members: { id: string; label: string; age: number; retirementAge: number; salary: number; pot: number; contributionRate: number }[];
   /** The engine input exactly as run (stress removed: the worker runs it with and without). */
   scenario: ScenarioInput;
@@ -56,18 +62,19 @@ export async function buildScenario(db: DbOrTx, schemeId: string, choice: Scenar
   }
   const orderedFunds = set.fundOrder.map((id) => byId.get(id)!);
 
-  const optionRows = await db
-    .select()
-    .from(defaultOptions)
-    .where(and(eq(defaultOptions.schemeId, schemeId), inArray(defaultOptions.id, choice.optionIds)));
+  const { found: optionRows, wrongVersions } = await optionVersionsFor(db, schemeId, choice);
   const memberRows = await db
     .select()
     .from(illustrativeMembers)
     .where(and(eq(illustrativeMembers.schemeId, schemeId), inArray(illustrativeMembers.id, choice.memberIds)));
   const issues: { path: string; message: string }[] = [];
   choice.optionIds.forEach((id, i) => {
-    if (!optionRows.some((o) => o.id === id)) issues.push({ path: `optionIds.${i}`, message: 'is not a default option of this scheme' });
+    if (wrongVersions.includes(id)) issues.push({ path: `optionVersions.${id}`, message: 'is not a version of this option' });
+    else if (!optionRows.some((o) => o.id === id)) issues.push({ path: `optionIds.${i}`, message: 'is not a default option of this scheme' });
   });
+  for (const optionId of Object.keys(choice.optionVersions ?? {})) {
+    if (!choice.optionIds.includes(optionId)) issues.push({ path: `optionVersions.${optionId}`, message: 'names an option that is not among optionIds' });
+  }
   choice.memberIds.forEach((id, i) => {
     if (!memberRows.some((m) => m.id === id)) issues.push({ path: `memberIds.${i}`, message: 'is not an illustrative member of this scheme' });
   });
@@ -114,11 +121,34 @@ export async function buildScenario(db: DbOrTx, schemeId: string, choice: Scenar
   return {
     assumptionSet: { id: set.id, version: set.version, status: set.status, setAt: set.setAt, approvedAt: set.approvedAt?.toISOString() ?? null },
     funds: orderedFunds.map((f) => ({ id: f.id, name: f.name })),
-    options: options.map((o) => ({ id: o.id, name: o.name, description: o.description })),
+    options: options.map((o) => ({ id: o.id, name: o.name, description: o.description, versionId: o.versionId, version: o.version, status: o.status })),
     members: members.map((m) => ({ id: m.id, label: m.label, age: m.age, retirementAge: m.retirementAge, salary: m.salary, pot: m.pot, contributionRate: m.contributionRate })),
     scenario,
     stress: choice.stress ?? null,
   };
+}
+
+/**
+ * The version each chosen option runs as: the one named in `optionVersions`, else its newest
+ * approved version, else (an option never approved yet) its newest draft. Options of other
+ * schemes are left out; a named version that is not the option's is listed in `wrongVersions`.
+ */
+async function optionVersionsFor(db: DbOrTx, schemeId: string, choice: ScenarioChoice) {
+  const rows = await db
+    .select({ option: defaultOptions.id, v: optionVersions })
+    .from(defaultOptions)
+    .innerJoin(optionVersions, eq(optionVersions.optionId, defaultOptions.id))
+    .where(and(eq(defaultOptions.schemeId, schemeId), inArray(defaultOptions.id, choice.optionIds)))
+    .orderBy(desc(optionVersions.version));
+  const wrongVersions: string[] = [];
+  const found = choice.optionIds.flatMap((id) => {
+    const vs = rows.filter((r) => r.option === id).map((r) => r.v);
+    const named = choice.optionVersions?.[id];
+    const v = named ? vs.find((x) => x.id === named) : (vs.find((x) => x.status === 'approved') ?? vs[0]);
+    if (vs.length && !v) wrongVersions.push(id);
+    return v ? [{ id, versionId: v.id, version: v.version, status: v.status, name: v.name, description: v.description, glidePath: v.glidePath }] : [];
+  });
+  return { found, wrongVersions };
 }
 
 /** Maps an engine path (options.2.glidePath…) to the request field it came from (optionIds.2: …). */

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { parse } from 'csv-parse/sync';
-import { assumptionSets, auditEvents, defaultOptions, illustrativeMembers, reports } from '../../db/schema';
+import { assumptionSets, auditEvents, illustrativeMembers, reports } from '../../db/schema';
+import { schemeOptions } from '../helpers/options';
 import { certaintyEquivalentPot } from '../../simulation';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { formatLambda, formatMoney, formatPercent } from '../../server/reports/format';
@@ -30,7 +31,7 @@ beforeAll(async () => {
   await board.signIn('board@fernleigh.example');
   // The real path: a run requested through the runs API and computed by the queue's worker.
   const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
-  const options = await s.db.select().from(defaultOptions).where(eq(defaultOptions.schemeId, s.schemeId)).orderBy(defaultOptions.name);
+  const options = await schemeOptions(s.db, s.schemeId);
   const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
   worker = await startRunWorker({ databaseUrl: s.url, threads: 1, log: () => {} });
   const created = await trustee.post(`/schemes/${s.schemeId}/runs`, {

@@ -2,7 +2,8 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
-import { assumptionSets, auditEvents, defaultOptions, illustrativeMembers, projectionRuns } from '../../db/schema';
+import { assumptionSets, auditEvents, illustrativeMembers, projectionRuns } from '../../db/schema';
+import { schemeOptions } from '../helpers/options';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 
 // A job whose worker vanished is expired after 8 s (longer than one attempt here takes) and
@@ -38,7 +39,7 @@ describe('a worker killed mid-run', () => {
     const trustee = new Client(s.baseUrl);
     await trustee.signIn('trustee@fernleigh.example');
     const [set] = await s.db.select().from(assumptionSets).where(eq(assumptionSets.schemeId, s.schemeId));
-    const options = await s.db.select().from(defaultOptions).where(eq(defaultOptions.schemeId, s.schemeId));
+    const options = await schemeOptions(s.db, s.schemeId);
     const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId));
     const created = await trustee.post(`/schemes/${s.schemeId}/runs`, {
       assumptionSetId: set.id,

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
-import { assumptionSets, auditEvents, defaultOptions, funds, illustrativeMembers, projectionRuns } from '../../db/schema';
+import { assumptionSets, auditEvents, funds, illustrativeMembers, projectionRuns } from '../../db/schema';
+import { insertOption, schemeOptions } from '../helpers/options';
 import { createDb } from '../../db/client';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { enqueueRun, producerFor } from '../../server/jobs/queue';
@@ -33,7 +34,7 @@ beforeAll(async () => {
   trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');
   const [set] = await s.db.select().from(assumptionSets).where(eq(assumptionSets.schemeId, s.schemeId));
-  const options = await s.db.select().from(defaultOptions).where(eq(defaultOptions.schemeId, s.schemeId)).orderBy(defaultOptions.name);
+  const options = await schemeOptions(s.db, s.schemeId);
   const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
   ids = { setId: set.id, optionIds: options.map((o) => o.id), memberIds: members.map((m) => m.id), fundIds: set.fundOrder };
 });
@@ -191,10 +192,7 @@ describe('bad run requests', () => {
 
   it("refuses another scheme's option under this scheme", async () => {
     const [fund] = await s.db.insert(funds).values({ schemeId: s.secondSchemeId, name: 'Other scheme fund' }).returning();
-    const [other] = await s.db
-      .insert(defaultOptions)
-      .values({ schemeId: s.secondSchemeId, name: 'Other scheme option', glidePath: [{ yearsToRetirement: 0, weights: { [fund.id]: 1 } }] })
-      .returning();
+    const other = await insertOption(s.db, s.secondSchemeId, { name: 'Other scheme option', glidePath: [{ yearsToRetirement: 0, weights: { [fund.id]: 1 } }] });
     const r = await trustee.post(runsPath(), { ...good(), optionIds: [ids.optionIds[0], other.id] });
     expect(r.status).toBe(400);
     expect(r.body.issues).toEqual([{ path: 'optionIds.1', message: 'is not a default option of this scheme' }]);

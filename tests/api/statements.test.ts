@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { parse } from 'csv-parse/sync';
-import { assumptionSets, defaultOptions, illustrativeMembers, statementExports } from '../../db/schema';
+import { assumptionSets, illustrativeMembers, statementExports } from '../../db/schema';
+import { schemeOptions } from '../helpers/options';
 import { createDb } from '../../db/client';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/background';
@@ -37,7 +38,7 @@ beforeAll(async () => {
   comms = new Client(s.baseUrl);
   await comms.signIn('comms@fernleigh.example');
   const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
-  const options = await s.db.select().from(defaultOptions).where(eq(defaultOptions.schemeId, s.schemeId)).orderBy(defaultOptions.name);
+  const options = await schemeOptions(s.db, s.schemeId);
   const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
   midCareer = members.find((m) => m.label === 'Mid career')!;
   expect(midCareer, 'the demo scheme has a "Mid career" illustrative member').toBeTruthy();

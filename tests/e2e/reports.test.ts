@@ -1,7 +1,8 @@
 import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
-import { assumptionSets, defaultOptions, illustrativeMembers } from '../../db/schema';
+import { assumptionSets, illustrativeMembers } from '../../db/schema';
+import { schemeOptions } from '../helpers/options';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { formatMoney, roundTo } from '../../server/reports/format';
 import { STATEMENT_ROUNDING } from '../../server/reports/statementText';
@@ -22,7 +23,7 @@ beforeAll(async () => {
   const trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');
   const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
-  const options = await s.db.select().from(defaultOptions).where(eq(defaultOptions.schemeId, s.schemeId)).orderBy(defaultOptions.name);
+  const options = await schemeOptions(s.db, s.schemeId);
   const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
   const created = await trustee.post(`/schemes/${s.schemeId}/runs`, { assumptionSetId: set.id, optionIds: options.slice(0, 2).map((o) => o.id), memberIds: members.map((m) => m.id), paths: 500, seed: 8 });
   run = await waitForRun(trustee, s.schemeId, created.body.id);

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Db } from '../../../db/client';
-import { assumptionSets, defaultOptions, fundAssumptions, funds, illustrativeMembers, outboxAttachments, outboxMessages, projectionRuns, reports, statementExports } from '../../../db/schema';
+import { assumptionSets, fundAssumptions, funds, illustrativeMembers, outboxAttachments, outboxMessages, projectionRuns, reports, runOptionVersions, statementExports } from '../../../db/schema';
+import { insertOptions } from '../../helpers/options';
 import { ENGINE_VERSION, runScenario, type ScenarioInput } from '../../../simulation';
 import { storeVariant, type StoredResult } from '../../../server/jobs/result';
 import type { ScenarioSnapshot } from '../../../server/services/scenario';
@@ -44,13 +45,10 @@ export async function insertFinishedRun(db: Db, schemeId: string, opts: { paths?
     { assumptionSetId: set.id, fundId: fs[0].id, expectedReturn: 0.07, volatility: 0.16, annualCharge: 0.002 },
     { assumptionSetId: set.id, fundId: fs[1].id, expectedReturn: 0.035, volatility: 0.06, annualCharge: 0.0015 },
   ]);
-  const os = await db
-    .insert(defaultOptions)
-    .values([
-      { schemeId, name: `All growth ${tag}`, glidePath: [{ yearsToRetirement: 0, weights: { [fs[0].id]: 1 } }] },
-      { schemeId, name: `Glide to bonds ${tag}`, glidePath: [{ yearsToRetirement: 10, weights: { [fs[0].id]: 1 } }, { yearsToRetirement: 0, weights: { [fs[0].id]: 0.25, [fs[1].id]: 0.75 } }] },
-    ])
-    .returning();
+  const os = await insertOptions(db, schemeId, [
+    { name: `All growth ${tag}`, glidePath: [{ yearsToRetirement: 0, weights: { [fs[0].id]: 1 } }] },
+    { name: `Glide to bonds ${tag}`, glidePath: [{ yearsToRetirement: 10, weights: { [fs[0].id]: 1 } }, { yearsToRetirement: 0, weights: { [fs[0].id]: 0.25, [fs[1].id]: 0.75 } }] },
+  ]);
   const [member] = await db
     .insert(illustrativeMembers)
     .values({ schemeId, label: `Fixture saver ${tag}`, age: 50, retirementAge: 65, salary: 36000, contributionRate: 0.1, pot: 40000 })
@@ -77,7 +75,7 @@ export async function insertFinishedRun(db: Db, schemeId: string, opts: { paths?
   const input: ScenarioSnapshot = {
     assumptionSet: { id: set.id, version: set.version, status: set.status, setAt: set.setAt, approvedAt: set.approvedAt?.toISOString() ?? null },
     funds: fs.map((f) => ({ id: f.id, name: f.name })),
-    options: os.map((o) => ({ id: o.id, name: o.name, description: '' })),
+    options: os.map((o) => ({ id: o.id, name: o.name, description: '', versionId: o.versionId, version: 1, status: 'approved' as const })),
     members: [{ id: member.id, label: member.label, age: 50, retirementAge: 65, salary: 36000, pot: 40000, contributionRate: 0.1 }],
     scenario,
     stress: null,
@@ -88,6 +86,7 @@ export async function insertFinishedRun(db: Db, schemeId: string, opts: { paths?
     .insert(projectionRuns)
     .values({ schemeId, status: 'done', progress: 1, assumptionSetId: set.id, assumptionsDraft: !!opts.draft, seed, paths, riskAversion: 2, input, result, engineVersion: ENGINE_VERSION, finishedAt: new Date() })
     .returning();
+  await db.insert(runOptionVersions).values(os.map((o, position) => ({ runId: run.id, position, optionId: o.id, optionVersionId: o.versionId })));
   return { run, input, result, options: os, member, set };
 }
 

@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
-import { assumptionSets, defaultOptions, fundAssumptions, funds, illustrativeMembers, projectionRuns } from '../../../db/schema';
+import { assumptionSets, fundAssumptions, funds, illustrativeMembers, projectionRuns } from '../../../db/schema';
+import { insertOption } from '../../helpers/options';
 import type { Examples, Fixtures } from './types';
 
 /**
@@ -24,10 +25,7 @@ async function tinyScheme(fx: Fixtures) {
     })
     .returning();
   await fx.db.insert(fundAssumptions).values({ assumptionSetId: set.id, fundId: fund.id, expectedReturn: 0.05, volatility: 0.1, annualCharge: 0.003 });
-  const [option] = await fx.db
-    .insert(defaultOptions)
-    .values({ schemeId: fx.schemeId, name: `Fixture option ${fx.nonce}`, glidePath: [{ yearsToRetirement: 0, weights: { [fund.id]: 1 } }] })
-    .returning();
+  const option = await insertOption(fx.db, fx.schemeId, { name: `Fixture option ${fx.nonce}`, glidePath: [{ yearsToRetirement: 0, weights: { [fund.id]: 1 } }] });
   const [member] = await fx.db
     .insert(illustrativeMembers)
     .values({ schemeId: fx.schemeId, label: `Fixture member ${fx.nonce}`, age: 60, retirementAge: 63, salary: 30000, contributionRate: 0.1, pot: 10000 })

@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
-import { assumptionSets, defaultOptions, fundAssumptions, funds, illustrativeMembers } from '../../../db/schema';
+import { assumptionSets, fundAssumptions, funds, illustrativeMembers } from '../../../db/schema';
+import { insertOption } from '../../helpers/options';
 import type { Examples, Fixtures } from './types';
 
 /** A fund of fx.schemeId that nothing refers to. */
@@ -52,12 +53,9 @@ function setBody(fundIds: string[]) {
   };
 }
 
-async function makeOption(fx: Fixtures) {
+async function makeOption(fx: Fixtures, status: 'approved' | 'draft' = 'approved') {
   const f = await makeFund(fx);
-  const [o] = await fx.db
-    .insert(defaultOptions)
-    .values({ schemeId: fx.schemeId, name: `Fixture option ${fx.nonce}`, glidePath: [{ yearsToRetirement: 0, weights: { [f.id]: 1 } }] })
-    .returning();
+  const o = await insertOption(fx.db, fx.schemeId, { name: `Fixture option ${fx.nonce}`, glidePath: [{ yearsToRetirement: 0, weights: { [f.id]: 1 } }] }, status);
   return { o, f };
 }
 
