@@ -21,8 +21,9 @@ export type TestServer = {
  * A database of this file's own, seeded with the demo scheme, and the real
  * app listening on an ephemeral port.
  */
-export async function startTestServer(opts: { seed?: boolean; env?: Record<string, string> } = {}): Promise<TestServer> {
-  const { url, drop } = await createTestDatabase();
+export async function startTestServer(opts: { seed?: boolean; env?: Record<string, string>; database?: { url: string; drop: () => Promise<void> } } = {}): Promise<TestServer> {
+  // A database the caller prepared (e.g. migrated step by step), or a copy of the migrated template.
+  const { url, drop } = opts.database ?? (await createTestDatabase());
   const { db, pool } = createDb(url, 5);
   let ids = { schemeId: '', secondSchemeId: '' };
   if (opts.seed !== false) ids = await seedDemo(db, { memberCount: 40 });
