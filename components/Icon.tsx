@@ -1,7 +1,7 @@
 import Svg, { Path, Circle, Rect } from 'react-native-svg';
 import { colors } from '@/constants/theme';
 
-export type IconName = 'home' | 'chart' | 'sliders' | 'path' | 'people' | 'person' | 'log' | 'document' | 'signout' | 'upload' | 'pie' | 'card' | 'more';
+export type IconName = 'home' | 'chart' | 'sliders' | 'path' | 'people' | 'person' | 'log' | 'document' | 'signout' | 'upload' | 'pie' | 'card' | 'more' | 'seal' | 'gear';
 
 /** Small line icons drawn with react-native-svg (24-unit grid, 1.8 stroke). */
 export function Icon({ name, size = 22, color = colors.ink }: { name: IconName; size?: number; color?: string }) {
@@ -38,6 +38,18 @@ export function Icon({ name, size = 22, color = colors.ink }: { name: IconName; 
           <Circle cx={5} cy={12} r={1.4} {...p} />
           <Circle cx={12} cy={12} r={1.4} {...p} />
           <Circle cx={19} cy={12} r={1.4} {...p} />
+        </>
+      )}
+      {name === 'seal' && (
+        <>
+          <Circle cx={12} cy={9} r={5.5} {...p} />
+          <Path d="M9.5 9l1.8 1.8L14.8 7.3M8.5 13.5L7 21l5-2.5 5 2.5-1.5-7.5" {...p} />
+        </>
+      )}
+      {name === 'gear' && (
+        <>
+          <Circle cx={12} cy={12} r={3} {...p} />
+          <Path d="M12 2.8v2.6M12 18.6v2.6M2.8 12h2.6M18.6 12h2.6M5.5 5.5l1.8 1.8M16.7 16.7l1.8 1.8M5.5 18.5l1.8-1.8M16.7 7.3l1.8-1.8" {...p} />
         </>
       )}
       {name === 'pie' && <Path d="M12 3a9 9 0 1 0 9 9h-9zM15 3.5A9 9 0 0 1 20.5 9H15z" {...p} />}

@@ -17,9 +17,11 @@ export const NAV_ITEMS: NavItem[] = [
   { href: '/members', label: 'Members', icon: 'card', permission: 'members:read' },
   { href: '/projections', label: 'Projections', icon: 'chart', permission: 'runs:read', phone: 1 },
   { href: '/reports', label: 'Reports', icon: 'document', permission: 'reports:read', phone: 3 },
+  { href: '/reviews', label: 'Reviews', icon: 'seal', permission: 'reviews:read' },
   { href: '/statements', label: 'Statements', icon: 'document', permission: 'statements:export', phone: 3 },
   { href: '/outbox', label: 'Outbox', icon: 'upload', permission: 'people:manage' },
   { href: '/people', label: 'People', icon: 'people', permission: 'people:manage', phone: 2 },
   { href: '/activity', label: 'Activity', icon: 'log', permission: 'audit:read' },
+  { href: '/settings', label: 'Settings', icon: 'gear', permission: 'settings:read' },
   { href: '/account', label: 'Account', icon: 'person', permission: 'scheme:read' },
 ];

@@ -1,19 +1,13 @@
 import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Role } from '@/constants/permissions';
+import type { Wire } from '@/types/wire';
+import type { describeActivity } from '@/server/services/activity';
 import { api } from './api';
 
 export type Person = { id: string; email: string; displayName: string; role: Role; since: string; active: boolean };
 export type PendingInvitation = { id: string; email: string; role: Role; expiresAt: string; createdAt: string };
-export type AuditEvent = {
-  id: number;
-  at: string;
-  actorEmail: string | null;
-  action: string;
-  entity: string | null;
-  entityId: string | null;
-  before: unknown;
-  after: unknown;
-};
+/** An audit event as the activity screen reads it: the sentence, details and link, beside the recorded values. */
+export type AuditEvent = Wire<Awaited<ReturnType<typeof describeActivity>>[number]>;
 
 export const peopleKeys = {
   all: (schemeId: string) => ['schemes', schemeId, 'people'] as const,

@@ -16,7 +16,10 @@ export type RunSummary = {
   riskAversion: number;
   assumptionsDraft: boolean;
   assumptionSet: { id: string; version: number; status: 'draft' | 'approved'; setAt: string };
-  options: { id: string; name: string }[];
+  /** Each option with the version it ran as (null for runs made before options were versioned). */
+  options: { id: string; name: string; versionId: string | null; version: number | null; status: 'draft' | 'approved' | null }[];
+  /** The scheme's current default when the run was made. */
+  baselineOptionId: string | null;
   members: { id: string; label: string }[];
   stress: Stress | null;
   targetReplacementRatio: number;
@@ -33,15 +36,19 @@ export type RunDetail = RunSummary & {
   input: { scenario: ScenarioInput; funds: { id: string; name: string }[]; members: { id: string; label: string; age: number; retirementAge: number }[] };
   result: RunResult | null;
 };
+/** What a run can be made of; each option as a run uses it (newest approved version) with a newer draft beside it. */
+type ChoiceVersion = { id: string; version: number; status: 'draft' | 'approved'; name: string };
 export type RunChoices = {
   assumptionSets: { id: string; version: number; status: 'draft' | 'approved'; setAt: string; fundOrder: string[] }[];
-  options: { id: string; name: string; description: string }[];
+  options: { id: string; name: string; description: string; version: ChoiceVersion; draft: ChoiceVersion | null; isCurrentDefault: boolean }[];
   members: { id: string; label: string; age: number; retirementAge: number }[];
   funds: { id: string; name: string }[];
 };
 export type RunRequest = {
   assumptionSetId: string;
   optionIds: string[];
+  /** Option id → a version to run instead of its newest approved one. */
+  optionVersions?: Record<string, string>;
   memberIds: string[];
   paths: number;
   seed?: number;

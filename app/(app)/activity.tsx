@@ -1,28 +1,11 @@
-import { Text, View } from 'react-native';
+import { Pressable, Text, View } from 'react-native';
+import { Link } from 'expo-router';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
-import { colors, space, type } from '@/constants/theme';
+import { colors, MIN_TOUCH, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useActivity, type AuditEvent } from '@/hooks/usePeople';
 
-/** Plain descriptions of audit actions; unknown actions show their code. */
-const ACTION_TEXT: Record<string, string> = {
-  'sign-in': 'signed in',
-  'sign-in.failed': 'failed to sign in',
-  'sign-out': 'signed out',
-  'invitation.created': 'invited someone',
-  'invitation.accepted': 'accepted an invitation',
-  'role.changed': 'changed a role',
-  'role.removed': 'removed someone from the scheme',
-  'password.changed': 'changed their password',
-  'password.reset': 'reset their password',
-  'password-reset.issued': 'issued a password-reset link',
-};
-
-function describe(v: unknown): string {
-  if (v === null || v === undefined) return '';
-  const s = JSON.stringify(v);
-  return s.length > 240 ? `${s.slice(0, 240)}…` : s;
-}
+const when = (iso: string) => new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
 
 export default function Activity() {
   const { scheme, can } = useCurrentScheme();
@@ -36,7 +19,7 @@ export default function Activity() {
   }
   const events = q.data?.pages.flatMap((p) => p.events) ?? [];
   return (
-    <Screen title="Activity" subtitle="Every sign-in and every change on this scheme: who, when, and what changed.">
+    <Screen title="Activity" subtitle="Every sign-in and every change on this scheme: who did what, to which object, and when.">
       {q.isLoading ? <Loading /> : null}
       {q.error ? <Notice tone="error">{q.error.message}</Notice> : null}
       <Card>
@@ -50,16 +33,33 @@ export default function Activity() {
   );
 }
 
+/** One event: the sentence (its object a link when it has one), the time, and what changed in words. */
 function EventRow({ e }: { e: AuditEvent }) {
+  const rest = e.sentence.slice(e.actor.length);
+  const sentence = (
+    <Text style={[type.body, { color: colors.ink }]} testID="activity-sentence">
+      <Text style={{ fontFamily: type.label.fontFamily }}>{e.actor}</Text>
+      {rest}
+    </Text>
+  );
   return (
-    <View style={{ paddingVertical: space.sm, borderTopWidth: 1, borderColor: colors.rule }}>
-      <Text style={[type.body, { color: colors.ink }]}>
-        <Text style={{ fontFamily: 'SourceSans3_600SemiBold' }}>{e.actorEmail ?? 'Someone'}</Text> {ACTION_TEXT[e.action] ?? e.action}
-        {e.entity ? ` · ${e.entity}` : ''}
-      </Text>
-      <Text style={styles.muted}>{new Date(e.at).toLocaleString('en-GB')}</Text>
-      {e.before !== null && e.before !== undefined ? <Text style={styles.muted}>Before: {describe(e.before)}</Text> : null}
-      {e.after !== null && e.after !== undefined ? <Text style={styles.muted}>After: {describe(e.after)}</Text> : null}
+    <View style={{ paddingVertical: space.sm, borderTopWidth: 1, borderColor: colors.rule, gap: 2 }}>
+      {e.href ? (
+        <Link href={e.href as never} asChild>
+          <Pressable accessibilityRole="link" style={{ minHeight: MIN_TOUCH, justifyContent: 'center' }}>
+            {sentence}
+            <Text style={[type.caption, { color: colors.primary }]}>Open</Text>
+          </Pressable>
+        </Link>
+      ) : (
+        sentence
+      )}
+      {e.details.map((d, i) => (
+        <Text key={i} style={styles.body}>
+          {d}
+        </Text>
+      ))}
+      <Text style={styles.muted}>{when(e.at)}</Text>
     </View>
   );
 }

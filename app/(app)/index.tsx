@@ -1,19 +1,19 @@
 import type { ReactNode } from 'react';
-import { Pressable, Text, View, useWindowDimensions } from 'react-native';
+import { Pressable, Text, View, useWindowDimensions, type ViewStyle } from 'react-native';
 import { Link } from 'expo-router';
 import { Icon } from '@/components/Icon';
 import { Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { SchemePicker } from '@/components/SchemePicker';
-import { ROLE_LABELS, can } from '@/constants/permissions';
+import { ROLE_LABELS, can, type Role } from '@/constants/permissions';
 import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
-import { useOverview } from '@/hooks/useOverview';
+import { useOverview, type Overview as OverviewData } from '@/hooks/useOverview';
 import { useSession } from '@/hooks/useSession';
 
 const STATUS_TEXT = { queued: 'Waiting to start', running: 'Running', done: 'Finished', failed: 'Failed' } as const;
 const STATUS_COLOUR = { queued: colors.mutedInk, running: colors.accent, done: colors.success, failed: colors.danger } as const;
 
-const day = (iso: string) => new Date(iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
+const day = (iso: string) => new Date(iso.length === 10 ? `${iso}T00:00:00Z` : iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 
 function Row({ href, children, testID }: { href: string; children: ReactNode; testID?: string }) {
   return (
@@ -32,6 +32,45 @@ function Figure({ label, value }: { label: string; value: number | null }) {
       <Text style={[type.heading, { color: colors.ink, fontVariant: ['tabular-nums'] }]}>{value.toLocaleString('en-GB')}</Text>
       <Text style={styles.muted}>{label}</Text>
     </View>
+  );
+}
+
+/** Whole days from today (UTC) to an ISO date. */
+const daysUntil = (iso: string) => Math.round((Date.parse(`${iso}T00:00:00Z`) - Date.parse(`${new Date().toISOString().slice(0, 10)}T00:00:00Z`)) / 86_400_000);
+
+/** The current default option and when the trustees next review it. */
+function GovernanceCard({ o, role, style }: { o: OverviewData; role: Role; style: ViewStyle }) {
+  const g = o.governance;
+  const days = g.nextReviewDue ? daysUntil(g.nextReviewDue) : null;
+  return (
+    <Card title="Default option and review" style={style}>
+      {g.currentDefault ? (
+        <Row href={`/options/${g.currentDefault.optionId}`} testID="overview-current-default">
+          <Text style={styles.body}>
+            Current default: {g.currentDefault.name ?? 'an option'}
+            {g.currentDefault.version ? ` (v${g.currentDefault.version})` : ''}
+          </Text>
+          <Text style={styles.muted}>The baseline every comparison shows first.</Text>
+        </Row>
+      ) : (
+        <Text style={styles.body}>No option is marked as the current default.</Text>
+      )}
+      <Row href="/reviews" testID="overview-next-review">
+        <Text style={[styles.body, days !== null && days <= 30 ? { color: days < 0 ? colors.danger : colors.accent } : null]}>
+          {g.nextReviewDue ? `Next review due ${day(g.nextReviewDue)}` : 'No next review date is set'}
+          {days === null ? '' : days > 0 ? ` · in ${days} day${days === 1 ? '' : 's'}` : days === 0 ? ' · today' : ` · ${-days} day${days === -1 ? '' : 's'} overdue`}
+        </Text>
+        <Text style={styles.muted}>
+          {g.lastReview ? `Last review: ${g.lastReview.title}, signed off ${g.lastReview.signedOffAt ? day(g.lastReview.signedOffAt) : ''}` : 'No review signed off in Keelson yet.'}
+          {g.openReviews ? ` · ${g.openReviews} review${g.openReviews === 1 ? '' : 's'} open` : ''}
+        </Text>
+      </Row>
+      {can(role, 'reviews:edit') ? (
+        <Row href="/reviews">
+          <Text style={[type.label, { color: colors.primary, fontSize: 16 }]}>{g.openReviews ? 'Continue the open review' : 'Open a review'}</Text>
+        </Row>
+      ) : null}
+    </Card>
   );
 }
 
@@ -66,6 +105,7 @@ export default function Overview() {
               <Figure label="membership records" value={o.counts.schemeMembers} />
             </View>
           </Card>
+          <GovernanceCard o={o} role={scheme.role} style={column} />
           {o.assumptions ? (
             <Card title="Assumptions" style={column}>
               {o.assumptions.latestApproved ? (
