@@ -10,9 +10,12 @@ type Col = { label: string; width: number; value: (r: OptionFigures) => string; 
 /**
  * Options ranked by certainty-equivalent pot at the chosen λ. Money is real (today's money)
  * and rounded for reading; "±" is one Monte Carlo standard error. The option column stays
- * put while the figures scroll sideways on a phone.
+ * put while the figures scroll sideways on a phone. The scheme's current default (the
+ * baseline), when it is among the options, is pinned first and marked, with its rank.
  */
-export function ComparisonTable({ rows, currency, lambda, colorOf }: { rows: OptionFigures[]; currency: string; lambda: number; colorOf: (optionId: string) => string }) {
+export function ComparisonTable({ rows: ranked, currency, lambda, colorOf, baselineId = null }: { rows: OptionFigures[]; currency: string; lambda: number; colorOf: (optionId: string) => string; baselineId?: string | null }) {
+  const rankOf = new Map(ranked.map((r, i) => [r.optionId, i + 1]));
+  const rows = pinFirst(ranked, baselineId);
   const m = (v: number) => money(v, currency);
   const se = (v: number) => (Number.isFinite(v) ? `± ${m(v)}` : null);
   const cols: Col[] = [
@@ -34,14 +37,28 @@ export function ComparisonTable({ rows, currency, lambda, colorOf }: { rows: Opt
     <View style={{ flexDirection: 'row' }} testID="comparison-table" accessibilityLabel="Options ranked by certainty-equivalent pot">
       <View style={{ width: 150, borderRightWidth: 1, borderColor: colors.rule }}>
         <Header label="Rank and option" width={150} />
-        {rows.map((r, i) => (
-          <View key={r.optionId} style={{ height: rowH, flexDirection: 'row', alignItems: 'center', gap: space.xs, borderTopWidth: 1, borderColor: colors.rule, paddingRight: space.xs }} testID="ranked-option">
-            <View style={{ width: 10, height: 10, borderRadius: 5, backgroundColor: colorOf(r.optionId) }} />
-            <Text style={[type.label, { color: colors.ink, flex: 1 }]} numberOfLines={2}>
-              {i + 1}. {r.name}
-            </Text>
-          </View>
-        ))}
+        {rows.map((r) => {
+          const baseline = r.optionId === baselineId;
+          return (
+            <View
+              key={r.optionId}
+              style={{ height: rowH, flexDirection: 'row', alignItems: 'center', gap: space.xs, borderTopWidth: 1, borderColor: colors.rule, paddingRight: space.xs, backgroundColor: baseline ? colors.primaryTint : undefined }}
+              testID="ranked-option"
+            >
+              <View style={{ width: 10, height: 10, borderRadius: 5, backgroundColor: colorOf(r.optionId) }} />
+              <View style={{ flex: 1 }}>
+                <Text style={[type.label, { color: colors.ink }]} numberOfLines={2}>
+                  {rankOf.get(r.optionId)}. {r.name}
+                </Text>
+                {baseline ? (
+                  <Text style={[type.caption, { color: colors.primary }]} testID="baseline-mark">
+                    Current default · baseline
+                  </Text>
+                ) : null}
+              </View>
+            </View>
+          );
+        })}
       </View>
       <ScrollView horizontal>
         <View>
@@ -51,7 +68,7 @@ export function ComparisonTable({ rows, currency, lambda, colorOf }: { rows: Opt
             ))}
           </View>
           {rows.map((r) => (
-            <View key={r.optionId} style={{ flexDirection: 'row', height: rowH, borderTopWidth: 1, borderColor: colors.rule }}>
+            <View key={r.optionId} style={{ flexDirection: 'row', height: rowH, borderTopWidth: 1, borderColor: colors.rule, backgroundColor: r.optionId === baselineId ? colors.primaryTint : undefined }}>
               {cols.map((c) => {
                 const s = c.se?.(r);
                 return (
@@ -67,6 +84,12 @@ export function ComparisonTable({ rows, currency, lambda, colorOf }: { rows: Opt
       </ScrollView>
     </View>
   );
+}
+
+/** The rows with the baseline's moved to the top (others keep their order). */
+export function pinFirst<T extends { optionId: string }>(rows: T[], baselineId: string | null): T[] {
+  const at = rows.findIndex((r) => r.optionId === baselineId);
+  return at < 0 ? rows : [rows[at], ...rows.slice(0, at), ...rows.slice(at + 1)];
 }
 
 function Header({ label, width, right }: { label: string; width: number; right?: boolean }) {

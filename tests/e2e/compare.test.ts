@@ -38,6 +38,9 @@ describe('comparing default options', () => {
       expect(text).toMatch(/median £[\d,]+/);
       const ranked = page.getByTestId('ranked-option');
       expect(await ranked.count()).toBe(4);
+      // The scheme's current default is pinned first and marked; every rank appears once.
+      expect(await ranked.first().innerText()).toMatch(/Balanced lifecycle[\s\S]*Current default · baseline/);
+      const ranks = async () => (await ranked.allInnerTexts()).map((t) => Number(/^(\d+)\./.exec(t)?.[1])).sort();
       await screenshot(page, 'compare-wide');
 
       const sentence = page.getByTestId('break-even-sentence');
@@ -53,7 +56,8 @@ describe('comparing default options', () => {
       const firstAt8 = await ranked.first().innerText();
       // A risk-neutral board and a strongly averse one should not rank the demo options alike.
       expect(new Set([sentenceAt0, sentenceAt2, sentenceAt8]).size, `${sentenceAt0} | ${sentenceAt2} | ${sentenceAt8}`).toBeGreaterThan(1);
-      expect(`${firstAt2} ${firstAt8}`).toMatch(/^1\./);
+      expect(`${firstAt2} ${firstAt8}`).toMatch(/^\d\. Balanced lifecycle/);
+      expect(await ranks()).toEqual([1, 2, 3, 4]);
 
       // Phone size: the same run, cards stacked.
       const url = page.url();

@@ -5,11 +5,13 @@ import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/componen
 import { DataTable } from '@/components/DataTable';
 import { CorrelationEditor } from '@/components/CorrelationEditor';
 import { StatusBadge } from '@/components/StatusBadge';
+import { ApprovalPanel } from '@/components/ApprovalPanel';
 import { day, parseNumber, parsePct, pct, pctInput } from '@/components/format';
 import { colors, MIN_TOUCH, radius, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { ApiError, fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useFunds } from '@/hooks/useFunds';
+import { useSession } from '@/hooks/useSession';
 import { useApproveSet, useAssumptionSet, useDiscardDraft, useNewDraft, useSaveDraft, type AssumptionContent, type AssumptionSet } from '@/hooks/useAssumptions';
 
 const RATE_FIELDS = [
@@ -130,6 +132,7 @@ export default function AssumptionSetScreen() {
   const { can } = useCurrentScheme();
   const { width } = useWindowDimensions();
   const { data: set, isLoading, error } = useAssumptionSet(id);
+  const { data: me } = useSession();
   const { data: schemeFunds } = useFunds();
   const save = useSaveDraft();
   const approve = useApproveSet();
@@ -189,11 +192,29 @@ export default function AssumptionSetScreen() {
         {set.status === 'approved' && can('assumptions:edit') ? (
           <Button label="Start a new draft from this version" onPress={() => newDraft.mutate(set.id, { onSuccess: (n) => router.push(`/assumptions/${n.id}`) })} busy={newDraft.isPending} />
         ) : null}
-        {set.status === 'draft' && can('assumptions:approve') && !confirmApprove ? <Button label={`Approve v${set.version}`} onPress={() => setConfirmApprove(true)} testID="approve" /> : null}
       </View>
+      {set.status === 'draft' || set.approvals.length > 1 ? (
+        <Card title="Approval">
+          <ApprovalPanel
+            what={`assumption set v${set.version}`}
+            status={set.status}
+            approvals={set.approvals}
+            required={set.approvalsRequired}
+            lastEditor={set.updatedBy}
+            youLastEdited={!!me && set.updatedById === me.user.id}
+            youApproved={!!me && set.approvals.some((a) => a.userId === me.user.id)}
+            canApprove={can('assumptions:approve') && !confirmApprove}
+            onApprove={() => setConfirmApprove(true)}
+          />
+        </Card>
+      ) : null}
       {confirmApprove ? (
         <Card title={`Approve version ${set.version}?`}>
-          <Text style={styles.body}>Once approved, these assumptions cannot be changed. Projections will use them as the scheme&apos;s approved basis.</Text>
+          <Text style={styles.body}>
+            {set.approvals.length + 1 >= set.approvalsRequired
+              ? "Once approved, these assumptions cannot be changed. Projections will use them as the scheme's approved basis."
+              : `Your approval is ${set.approvals.length + 1} of the ${set.approvalsRequired} the scheme needs; the set stays a draft until another trustee approves it too.`}
+          </Text>
           {approve.error ? <Notice tone="error">{approve.error.message}</Notice> : null}
           <View style={styles.row}>
             <Button label="Approve" onPress={() => approve.mutate(set.id, { onSuccess: () => setConfirmApprove(false) })} busy={approve.isPending} testID="confirm-approve" />

@@ -3,7 +3,7 @@ import { Pressable, Text, View, useWindowDimensions } from 'react-native';
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { CautionNotice } from '@/components/CautionNotice';
-import { ComparisonTable } from '@/components/ComparisonTable';
+import { ComparisonTable, pinFirst } from '@/components/ComparisonTable';
 import { FanChart } from '@/components/FanChart';
 import { LambdaControl } from '@/components/LambdaControl';
 import { ProgressBar } from '@/components/ProgressBar';
@@ -102,7 +102,8 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
             {sentence}
           </Text>
         ) : null}
-        <ComparisonTable rows={ranked} currency={currency} lambda={lambda} colorOf={colorOf} />
+        <ComparisonTable rows={ranked} currency={currency} lambda={lambda} colorOf={colorOf} baselineId={run.baselineOptionId} />
+        <BaselineNote run={run} />
         {can('reports:create') ? (
           <View style={styles.row}>
             <Button kind="secondary" label={`Make a board report at λ = ${lambda}`} onPress={() => router.push(`/reports?run=${run.id}&lambda=${lambda}`)} />
@@ -125,7 +126,7 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
               </Text>
             );
           })}
-          <ComparisonTable rows={stressedRanked} currency={currency} lambda={lambda} colorOf={colorOf} />
+          <ComparisonTable rows={stressedRanked} currency={currency} lambda={lambda} colorOf={colorOf} baselineId={run.baselineOptionId} />
         </Card>
       ) : null}
 
@@ -138,7 +139,7 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
       </View>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.lg }}>
         {width > 0
-          ? ranked.map((row) => (
+          ? pinFirst(ranked, run.baselineOptionId).map((row) => (
               <Card key={row.optionId} style={{ width: columns === 1 ? '100%' : chartWidth + 2 * space.lg + 2 }}>
                 <FanChart
                   title={`${row.name} — ${member?.label ?? ''}`}
@@ -156,6 +157,26 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
           : null}
       </View>
       <VariantNote variant={result.base} />
+    </View>
+  );
+}
+
+/** Which option was the baseline, and the versions the run used (runs made before versions name none). */
+function BaselineNote({ run }: { run: RunDetail }) {
+  const baseline = run.options.find((o) => o.id === run.baselineOptionId);
+  const versions = run.options.filter((o) => o.version !== null);
+  const drafts = run.options.filter((o) => o.status === 'draft');
+  return (
+    <View style={{ gap: 2 }}>
+      <Text style={styles.muted} testID="baseline-note">
+        {baseline
+          ? `${baseline.name} was the scheme's current default when this run was made: it is shown first, as the baseline, with its rank.`
+          : run.baselineOptionId
+            ? "The scheme's current default when this run was made is not among its options."
+            : 'No option was marked as the current default when this run was made.'}
+      </Text>
+      {versions.length ? <Text style={styles.muted}>Versions run: {versions.map((o) => `${o.name} v${o.version}${o.status === 'draft' ? ' (DRAFT)' : ''}`).join(', ')}.</Text> : <Text style={styles.muted}>Made before options were versioned: the options as they stood then are kept in the run.</Text>}
+      {drafts.length ? <Notice tone="warning">{`${drafts.map((o) => o.name).join(', ')} ran as ${drafts.length === 1 ? 'a draft version' : 'draft versions'} not yet approved.`}</Notice> : null}
     </View>
   );
 }

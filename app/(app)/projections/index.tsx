@@ -2,7 +2,8 @@ import { useMemo, useState } from 'react';
 import { Pressable, Text, View } from 'react-native';
 import { useRouter } from 'expo-router';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
-import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
+import { CheckChip as Chip } from '@/components/CheckChip';
+import { colors, MIN_TOUCH, space, type } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useRunChoices, useRuns, useStartRun, type RunSummary } from '@/hooks/useRuns';
@@ -48,32 +49,6 @@ function RunRow({ run }: { run: RunSummary }) {
   );
 }
 
-function Chip({ label, selected, onPress, note }: { label: string; selected: boolean; onPress: () => void; note?: string }) {
-  return (
-    <Pressable
-      accessibilityRole="checkbox"
-      accessibilityState={{ checked: selected }}
-      accessibilityLabel={note ? `${label} (${note})` : label}
-      onPress={onPress}
-      style={{
-        minHeight: MIN_TOUCH,
-        paddingHorizontal: space.md,
-        justifyContent: 'center',
-        borderRadius: radius.md,
-        borderWidth: 1,
-        borderColor: selected ? colors.primary : '#B9B2A7',
-        backgroundColor: selected ? colors.primaryTint : colors.surface,
-      }}
-    >
-      <Text style={[type.label, { color: selected ? colors.primary : colors.ink }]}>
-        {selected ? '✓ ' : ''}
-        {label}
-        {note ? <Text style={{ color: colors.danger }}> {note}</Text> : null}
-      </Text>
-    </Pressable>
-  );
-}
-
 function NewComparison({ schemeId }: { schemeId: string }) {
   const router = useRouter();
   const choices = useRunChoices(schemeId);
@@ -91,6 +66,8 @@ function NewComparison({ schemeId }: { schemeId: string }) {
   const [stressYears, setStressYears] = useState('1');
   const [stressFallPct, setStressFallPct] = useState('30');
   const [formError, setFormError] = useState<string | null>(null);
+  // Options to run as their pending draft rather than their approved version.
+  const [drafts, setDrafts] = useState<string[]>([]);
 
   const data = choices.data;
   const setId = chosenSetId ?? (data?.assumptionSets.find((s) => s.status === 'approved') ?? data?.assumptionSets[0])?.id ?? null;
@@ -113,6 +90,7 @@ function NewComparison({ schemeId }: { schemeId: string }) {
       {
         assumptionSetId: setId,
         optionIds: optionIds ?? [],
+        optionVersions: Object.fromEntries((data.options ?? []).filter((o) => o.draft && drafts.includes(o.id) && (optionIds ?? []).includes(o.id)).map((o) => [o.id, o.draft!.id])),
         memberIds: memberIds ?? [],
         paths,
         seed: num(seed),
@@ -138,9 +116,27 @@ function NewComparison({ schemeId }: { schemeId: string }) {
       <Text style={styles.label}>Default options to compare</Text>
       <View style={styles.row}>
         {data.options.map((o) => (
-          <Chip key={o.id} label={o.name} selected={(optionIds ?? []).includes(o.id)} onPress={() => setOptionIds(toggle(optionIds, o.id))} />
+          <Chip
+            key={o.id}
+            label={`${o.name} v${o.version.version}${o.isCurrentDefault ? ' · current default' : ''}`}
+            note={o.version.status === 'draft' ? 'DRAFT' : undefined}
+            selected={(optionIds ?? []).includes(o.id)}
+            onPress={() => setOptionIds(toggle(optionIds, o.id))}
+          />
         ))}
       </View>
+      {data.options.some((o) => o.draft && o.version.status === 'approved' && (optionIds ?? []).includes(o.id)) ? (
+        <View style={{ gap: space.xs }}>
+          <Text style={styles.muted}>Some options have a newer draft awaiting approval. Runs use the approved version unless you choose the draft:</Text>
+          <View style={styles.row}>
+            {data.options
+              .filter((o) => o.draft && o.version.status === 'approved' && (optionIds ?? []).includes(o.id))
+              .map((o) => (
+                <Chip key={o.id} label={`Run draft v${o.draft!.version} of ${o.name}`} note="DRAFT" selected={drafts.includes(o.id)} onPress={() => setDrafts(toggle(drafts, o.id))} />
+              ))}
+          </View>
+        </View>
+      ) : null}
       {err('optionIds') ? <Text style={styles.error}>Options: {err('optionIds')}</Text> : null}
 
       <Text style={styles.label}>Illustrative members</Text>
