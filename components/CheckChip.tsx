@@ -5,9 +5,9 @@ import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
 export function CheckChip({ label, selected, onPress, note }: { label: string; selected: boolean; onPress: () => void; note?: string }) {
   return (
     <Pressable
-      accessibilityRole="checkbox"
-      accessibilityState={{ checked: selected }}
-      accessibilityLabel={note ? `${label} (${note})` : label}
+      role="checkbox"
+      aria-checked={selected}
+      aria-label={note ? `${label} (${note})` : label}
       onPress={onPress}
       style={{
         minHeight: MIN_TOUCH,

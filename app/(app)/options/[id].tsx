@@ -86,8 +86,8 @@ function NewOption() {
 function VersionChip({ label, selected, onPress, testID }: { label: string; selected: boolean; onPress: () => void; testID?: string }) {
   return (
     <Pressable
-      accessibilityRole="radio"
-      accessibilityState={{ selected }}
+      role="radio"
+      aria-checked={selected}
       onPress={onPress}
       testID={testID}
       style={{ minHeight: MIN_TOUCH, paddingHorizontal: space.md, justifyContent: 'center', borderRadius: radius.md, borderWidth: 1, borderColor: selected ? colors.primary : colors.rule, backgroundColor: selected ? colors.primaryTint : colors.surface }}
