@@ -3,7 +3,7 @@ import type { ReportContent, RunForReport } from './content';
 import { pctKey } from './content';
 import { DRAFT_TEXT } from './caution';
 import { currencySymbol, formatMoney } from './format';
-import { contentWidth, fanChart, finishPages, glidePathChart, heading, MARGIN, newDocument, noticeBox, paragraph, PDF_COLORS, table, toBuffer, type Column } from './draw';
+import { contentWidth, factRows, fanChart, finishPages, glidePathChart, heading, MARGIN, newDocument, noticeBox, paragraph, PDF_COLORS, table, toBuffer, type Column } from './draw';
 
 const ordinal = (n: number) => `${n}${n % 100 >= 11 && n % 100 <= 13 ? 'th' : ({ 1: 'st', 2: 'nd', 3: 'rd' } as Record<number, string>)[n % 10] ?? 'th'}`;
 const pctLabel = (p: number) => (p === 50 ? 'Median' : ordinal(p));
@@ -33,12 +33,7 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
     ['Options compared', content.options.map((o) => o.name).join('; ')],
     ['Illustrative members', content.assumptions.members.map((m) => m.label).join('; ')],
   ];
-  for (const [k, v] of facts) {
-    const y = doc.y;
-    doc.font('semibold').fontSize(10.5).fillColor(PDF_COLORS.muted).text(k, MARGIN, y, { width: 130 });
-    doc.font('regular').fontSize(10.5).fillColor(PDF_COLORS.ink).text(v, MARGIN + 140, y, { width: contentWidth(doc) - 140 });
-    doc.moveDown(0.5);
-  }
+  factRows(doc, facts);
   doc.moveDown(1);
   if (content.draft) noticeBox(doc, 'DRAFT', [DRAFT_TEXT], 'danger');
   noticeBox(doc, 'Illustration only', [content.caution]);

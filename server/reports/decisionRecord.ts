@@ -1,7 +1,7 @@
 import { buildReportContent, type RunForReport } from './content';
 import { CAUTION_TEXT } from './caution';
 import { formatDate, formatLambda } from './format';
-import { contentWidth, finishPages, heading, MARGIN, newDocument, noticeBox, paragraph, PDF_COLORS, table, toBuffer } from './draw';
+import { contentWidth, factRows, finishPages, heading, MARGIN, newDocument, noticeBox, paragraph, PDF_COLORS, table, toBuffer } from './draw';
 
 /**
  * The decision record of a default-option review: what the trustees looked at, what they
@@ -124,15 +124,6 @@ export function buildDecisionRecord(i: DecisionRecordInput): DecisionRecord {
   };
 }
 
-function facts(doc: PDFKit.PDFDocument, rows: [string, string][]) {
-  for (const [k, v] of rows) {
-    const y = doc.y;
-    doc.font('semibold').fontSize(10).fillColor(PDF_COLORS.muted).text(k, MARGIN, y, { width: 140 });
-    doc.font('regular').fontSize(10).fillColor(PDF_COLORS.ink).text(v, MARGIN + 150, y, { width: contentWidth(doc) - 150 });
-    doc.moveDown(0.4);
-  }
-}
-
 /** The decision record as a PDF for the minutes. A record not yet signed off is marked DRAFT on every page. */
 export async function renderDecisionRecord(rec: DecisionRecord): Promise<Buffer> {
   const doc = newDocument({ title: `${rec.title}: decision record`, subject: `${rec.schemeName}: decision of review ${rec.reviewId}` });
@@ -141,7 +132,7 @@ export async function renderDecisionRecord(rec: DecisionRecord): Promise<Buffer>
   doc.font('bold').fontSize(24).fillColor(PDF_COLORS.ink).text(rec.title, { width: contentWidth(doc) });
   doc.font('regular').fontSize(13).fillColor(PDF_COLORS.muted).text(rec.schemeName, { width: contentWidth(doc) });
   doc.moveDown(1);
-  facts(doc, [
+  factRows(doc, [
     ['Review', rec.reviewId],
     ['Status', rec.final ? `Signed off on ${rec.signedOffOn}` : 'Not signed off: a draft of the record'],
     ['Record made', rec.generatedOn],
@@ -151,7 +142,7 @@ export async function renderDecisionRecord(rec: DecisionRecord): Promise<Buffer>
 
   heading(doc, 'Decision');
   paragraph(doc, rec.decision.sentence, { font: 'semibold', size: 12 });
-  facts(doc, [['Risk aversion (λ)', rec.lambda.value ?? 'not stated']]);
+  factRows(doc, [['Risk aversion (λ)', rec.lambda.value ?? 'not stated']]);
   paragraph(doc, 'How the board arrived at λ', { font: 'semibold' });
   paragraph(doc, rec.lambda.calibration || 'Not stated.');
   paragraph(doc, 'Reasons, in the board’s words', { font: 'semibold' });

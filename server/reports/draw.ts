@@ -83,6 +83,18 @@ export function paragraph(doc: Doc, text: string, opts: { size?: number; color?:
   doc.font('regular').fontSize(10).fillColor(PDF_COLORS.ink);
 }
 
+/** Label–value lines, the label in muted semibold on the left (title pages). */
+export function factRows(doc: Doc, rows: [string, string][], opts: { labelWidth?: number; size?: number } = {}) {
+  const lw = opts.labelWidth ?? 130;
+  const size = opts.size ?? 10.5;
+  for (const [k, v] of rows) {
+    const y = doc.y;
+    doc.font('semibold').fontSize(size).fillColor(PDF_COLORS.muted).text(k, MARGIN, y, { width: lw });
+    doc.font('regular').fontSize(size).fillColor(PDF_COLORS.ink).text(v, MARGIN + lw + 10, y, { width: contentWidth(doc) - lw - 10 });
+    doc.moveDown(0.5);
+  }
+}
+
 /** A boxed notice (cautions, draft marking). */
 export function noticeBox(doc: Doc, title: string, lines: string[], tone: 'caution' | 'danger' = 'caution') {
   const w = contentWidth(doc);

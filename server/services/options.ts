@@ -86,6 +86,21 @@ async function nameTaken(db: DbOrTx, schemeId: string, name: string, exceptId?: 
   return (rows.rows as { id: string }[]).some((r) => r.id !== exceptId);
 }
 
+/** An option as lists show it: its newest version's content, its newest approved version, and whether it is the current default. */
+function summarise(row: typeof defaultOptions.$inferSelect, versions: VersionRow[], currentDefaultOptionId: string | null): OptionSummary {
+  const approved = versions.find((v) => v.status === 'approved') ?? null;
+  return {
+    id: row.id,
+    archived: row.archived,
+    createdAt: row.createdAt,
+    updatedAt: row.updatedAt,
+    ...content(versions[0]),
+    latest: versionSummary(versions[0]),
+    approved: approved && versionSummary(approved),
+    isCurrentDefault: row.id === currentDefaultOptionId,
+  };
+}
+
 export async function listOptions(db: DbOrTx, schemeId: string, includeArchived: boolean): Promise<OptionSummary[]> {
   const rows = await db
     .select()
@@ -97,22 +112,7 @@ export async function listOptions(db: DbOrTx, schemeId: string, includeArchived:
     rows.map((r) => r.id),
   );
   const { currentDefaultOptionId } = await settingsOf(db, schemeId);
-  return rows
-    .filter((r) => versions.get(r.id)!.length > 0)
-    .map((r) => {
-      const vs = versions.get(r.id)!;
-      const approved = vs.find((v) => v.status === 'approved') ?? null;
-      return {
-        id: r.id,
-        archived: r.archived,
-        createdAt: r.createdAt,
-        updatedAt: r.updatedAt,
-        ...content(vs[0]),
-        latest: versionSummary(vs[0]),
-        approved: approved && versionSummary(approved),
-        isCurrentDefault: r.id === currentDefaultOptionId,
-      };
-    });
+  return rows.filter((r) => versions.get(r.id)!.length > 0).map((r) => summarise(r, versions.get(r.id)!, currentDefaultOptionId));
 }
 
 /** One option with every version (newest first). */
@@ -120,19 +120,9 @@ export async function getOption(db: DbOrTx, schemeId: string, id: string) {
   const [row] = await db.select().from(defaultOptions).where(and(eq(defaultOptions.id, id), eq(defaultOptions.schemeId, schemeId)));
   if (!row) throw notFound('No such default option in this scheme.');
   const vs = (await versionsByOption(db, [id])).get(id)!;
-  const approved = vs.find((v) => v.status === 'approved') ?? null;
+  if (!vs.length) throw notFound('No such default option in this scheme.');
   const { currentDefaultOptionId } = await settingsOf(db, schemeId);
-  const summary: OptionSummary = {
-    id: row.id,
-    archived: row.archived,
-    createdAt: row.createdAt,
-    updatedAt: row.updatedAt,
-    ...content(vs[0]),
-    latest: versionSummary(vs[0]),
-    approved: approved && versionSummary(approved),
-    isCurrentDefault: row.id === currentDefaultOptionId,
-  };
-  return { ...summary, versions: vs.map(versionSummary) };
+  return { ...summarise(row, vs, currentDefaultOptionId), versions: vs.map(versionSummary) };
 }
 
 const creator = alias(users, 'creator');

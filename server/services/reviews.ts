@@ -102,6 +102,15 @@ async function loadRow(db: DbOrTx, schemeId: string, id: string, lock = false) {
   return row;
 }
 
+/** Runs `change` in a transaction on the review, locked and known to be open (409 once it is final). */
+async function changeOpenReview<T>(db: DbOrTx, ctx: ServiceContext, id: string, change: (tx: DbOrTx, row: ReviewRow) => Promise<T>): Promise<T> {
+  return db.transaction(async (tx) => {
+    const row = await loadRow(tx, ctx.schemeId!, id, true);
+    if (row.status !== 'open') throw finalised(row);
+    return change(tx, row);
+  });
+}
+
 /** Everything a review gathers, in the order the trustees gave. */
 async function gathered(db: DbOrTx, reviewId: string) {
   const versionRows = await db
@@ -296,9 +305,7 @@ export async function openReview(db: DbOrTx, ctx: ServiceContext, input: { title
 /** Changes an open review; a change withdraws the signatures given so far (they signed what it said before). */
 export async function updateReview(db: DbOrTx, ctx: ServiceContext, id: string, patch: ReviewPatch) {
   const schemeId = ctx.schemeId!;
-  await db.transaction(async (tx) => {
-    const row = await loadRow(tx, schemeId, id, true);
-    if (row.status !== 'open') throw finalised(row);
+  await changeOpenReview(db, ctx, id, async (tx, row) => {
     await checkPatch(tx, schemeId, patch);
     const { optionVersionIds: _v, runIds: _r, reportIds: _p, ...fields } = patch;
     const decisionCleared = fields.decision === 'no_change' ? { chosenVersionId: null } : {};
@@ -321,10 +328,7 @@ export async function updateReview(db: DbOrTx, ctx: ServiceContext, id: string, 
 
 /** Discards an open review. */
 export async function discardReview(db: DbOrTx, ctx: ServiceContext, id: string) {
-  const schemeId = ctx.schemeId!;
-  await db.transaction(async (tx) => {
-    const row = await loadRow(tx, schemeId, id, true);
-    if (row.status !== 'open') throw finalised(row);
+  await changeOpenReview(db, ctx, id, async (tx, row) => {
     await tx.delete(reviews).where(eq(reviews.id, id));
     await audit(tx, ctx, { action: 'review.discarded', entity: 'review', entityId: id, before: { title: row.title } });
   });
@@ -381,9 +385,7 @@ async function recordOf(db: DbOrTx, schemeId: string, row: ReviewRow, extra: { n
 export async function signOff(db: DbOrTx, ctx: ServiceContext, id: string) {
   const schemeId = ctx.schemeId!;
   const actor = ctx.actor!;
-  await db.transaction(async (tx) => {
-    const row = await loadRow(tx, schemeId, id, true);
-    if (row.status !== 'open') throw finalised(row);
+  await changeOpenReview(db, ctx, id, async (tx, row) => {
     const g = await gathered(tx, id);
     const now = new Date();
     const missing = missingForSignOff(row, g, now);
@@ -425,9 +427,7 @@ export async function signOff(db: DbOrTx, ctx: ServiceContext, id: string) {
 /** A trustee withdraws their own signature before the review is final. */
 export async function withdrawSignature(db: DbOrTx, ctx: ServiceContext, id: string) {
   const schemeId = ctx.schemeId!;
-  await db.transaction(async (tx) => {
-    const row = await loadRow(tx, schemeId, id, true);
-    if (row.status !== 'open') throw finalised(row);
+  await changeOpenReview(db, ctx, id, async (tx, row) => {
     const gone = await tx
       .delete(reviewSignOffs)
       .where(and(eq(reviewSignOffs.reviewId, id), eq(reviewSignOffs.userId, ctx.actor!.id)))

@@ -1,6 +1,10 @@
 import { PDFParse } from 'pdf-parse';
 import { expect } from 'vitest';
+import { and, eq } from 'drizzle-orm';
+import type { Db } from '../../db/client';
+import { assumptionSets, illustrativeMembers } from '../../db/schema';
 import type { Client } from '../helpers/app';
+import { schemeOptions } from '../helpers/options';
 
 /** The text of a PDF, as pdf-parse extracts it, with runs of white space made single spaces. */
 export async function pdfText(buf: Buffer): Promise<{ text: string; pages: number }> {
@@ -40,4 +44,18 @@ export async function eventually<T>(what: string, check: () => Promise<T | null 
     if (Date.now() > until) throw new Error(`timed out waiting for ${what}`);
     await new Promise((res) => setTimeout(res, 100));
   }
+}
+
+/**
+ * A run of the scheme's approved assumptions, its first `options` options by name (all by
+ * default) and every illustrative member, requested through the API as `c` and finished by
+ * the queue's worker.
+ */
+export async function finishedSchemeRun(c: Client, db: Db, schemeId: string, run: { paths: number; seed: number; options?: number }) {
+  const [set] = await db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, schemeId), eq(assumptionSets.status, 'approved')));
+  const options = await schemeOptions(db, schemeId);
+  const members = await db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, schemeId)).orderBy(illustrativeMembers.age);
+  const created = await c.post(`/schemes/${schemeId}/runs`, { assumptionSetId: set.id, optionIds: options.slice(0, run.options ?? options.length).map((o) => o.id), memberIds: members.map((m) => m.id), paths: run.paths, seed: run.seed });
+  expect(created.status, JSON.stringify(created.body)).toBe(201);
+  return waitForRun(c, schemeId, created.body.id);
 }

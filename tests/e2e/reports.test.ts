@@ -1,13 +1,10 @@
 import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { and, eq } from 'drizzle-orm';
-import { assumptionSets, illustrativeMembers } from '../../db/schema';
-import { schemeOptions } from '../helpers/options';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { formatMoney, roundTo } from '../../server/reports/format';
 import { STATEMENT_ROUNDING } from '../../server/reports/statementText';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
-import { waitForRun } from '../api/reports-helpers';
+import { finishedSchemeRun } from '../api/reports-helpers';
 import { launch, PHONE, screenshot, signIn, WIDE } from './browser';
 
 process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
@@ -22,11 +19,7 @@ beforeAll(async () => {
   worker = await startRunWorker({ databaseUrl: s.url, threads: 1, log: () => {} });
   const trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');
-  const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
-  const options = await schemeOptions(s.db, s.schemeId);
-  const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
-  const created = await trustee.post(`/schemes/${s.schemeId}/runs`, { assumptionSetId: set.id, optionIds: options.slice(0, 2).map((o) => o.id), memberIds: members.map((m) => m.id), paths: 500, seed: 8 });
-  run = await waitForRun(trustee, s.schemeId, created.body.id);
+  run = await finishedSchemeRun(trustee, s.db, s.schemeId, { options: 2, paths: 500, seed: 8 });
   reportTitle = 'Default option review, spring 2026';
   const rep = await trustee.post(`/schemes/${s.schemeId}/reports`, { runId: run.id, title: reportTitle });
   expect(rep.status).toBe(201);

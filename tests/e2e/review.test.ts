@@ -1,11 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { and, eq } from 'drizzle-orm';
-import { assumptionSets, illustrativeMembers, reviews, schemeSettings } from '../../db/schema';
+import { eq } from 'drizzle-orm';
+import { reviews, schemeSettings } from '../../db/schema';
 import { DEMO_SECOND_TRUSTEE } from '../../db/seed';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 import { schemeOptions } from '../helpers/options';
-import { waitForRun } from '../api/reports-helpers';
+import { finishedSchemeRun } from '../api/reports-helpers';
 import { launch, PHONE, screenshot, signIn, WIDE } from './browser';
 
 process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
@@ -20,14 +20,9 @@ beforeAll(async () => {
   // The evidence: a finished comparison of the demo options and a board report made from it.
   const trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');
-  const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
-  const options = await schemeOptions(s.db, s.schemeId);
-  cautiousId = options.find((o) => o.name === 'Cautious glide')!.id;
-  const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId));
-  const run = await trustee.post(`/schemes/${s.schemeId}/runs`, { assumptionSetId: set.id, optionIds: options.map((o) => o.id), memberIds: members.map((m) => m.id), paths: 500, seed: 4242 });
-  expect(run.status, JSON.stringify(run.body)).toBe(201);
-  await waitForRun(trustee, s.schemeId, run.body.id);
-  expect((await trustee.post(`/schemes/${s.schemeId}/reports`, { runId: run.body.id, title: 'Review evidence pack' })).status).toBe(201);
+  cautiousId = (await schemeOptions(s.db, s.schemeId)).find((o) => o.name === 'Cautious glide')!.id;
+  const run = await finishedSchemeRun(trustee, s.db, s.schemeId, { paths: 500, seed: 4242 });
+  expect((await trustee.post(`/schemes/${s.schemeId}/reports`, { runId: run.id, title: 'Review evidence pack' })).status).toBe(201);
 }, 120_000);
 
 afterAll(async () => {

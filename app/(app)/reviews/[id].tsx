@@ -17,19 +17,8 @@ import { recordHref, useDiscardReview, useReview, useSignReview, useUpdateReview
 import { useRuns } from '@/hooks/useRuns';
 import { useSession } from '@/hooks/useSession';
 
-type Form = {
-  assumptionSetId: string | null;
-  optionVersionIds: string[];
-  runIds: string[];
-  reportIds: string[];
-  decision: 'option' | 'no_change' | null;
-  chosenVersionId: string | null;
-  lambda: string;
-  lambdaCalibration: string;
-  reasons: string;
-  dissent: string;
-  nextReviewDue: string;
-};
+/** The review's editable fields as the form holds them: λ and the next review date as typed. */
+type Form = Omit<Required<ReviewPatch>, 'title' | 'riskAversion' | 'nextReviewDue'> & { lambda: string; nextReviewDue: string };
 
 const formOf = (r: Review): Form => ({
   assumptionSetId: r.assumptionSetId,
