@@ -65,6 +65,14 @@ function GovernanceCard({ o, role, style }: { o: OverviewData; role: Role; style
           {g.openReviews ? ` · ${g.openReviews} review${g.openReviews === 1 ? '' : 's'} open` : ''}
         </Text>
       </Row>
+      {g.optionDrafts.map((d) => (
+        <Row key={d.versionId} href={`/options/${d.optionId}?version=${d.versionId}`}>
+          <Text style={[styles.body, { color: colors.accent }]}>
+            {d.name}: draft version {d.version} — not yet approved
+          </Text>
+          <Text style={styles.muted}>{can(role, 'options:approve') ? 'Awaiting a trustee other than its last editor' : 'Awaiting a trustee’s approval'}</Text>
+        </Row>
+      ))}
       {can(role, 'reviews:edit') ? (
         <Row href="/reviews">
           <Text style={[type.label, { color: colors.primary, fontSize: 16 }]}>{g.openReviews ? 'Continue the open review' : 'Open a review'}</Text>

@@ -1,7 +1,7 @@
-import { and, count, desc, eq, inArray } from 'drizzle-orm';
+import { and, count, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client';
 import { defaultOptions, optionVersions, reviews, schemeRoles, schemeSettings, users } from '../../db/schema';
-import { badRequest, conflict, notFound } from '../errors';
+import { badRequest, conflict } from '../errors';
 import { audit } from './audit';
 import type { ServiceContext } from './context';
 
@@ -145,15 +145,18 @@ export async function governanceSummary(db: DbOrTx, schemeId: string) {
     .orderBy(desc(reviews.signedOffAt))
     .limit(1);
   const [open] = await db.select({ n: count() }).from(reviews).where(and(eq(reviews.schemeId, schemeId), eq(reviews.status, 'open')));
+  // Option drafts waiting for a trustee's approval (the newest version of an active option).
+  const pending = await db.execute(sql`
+    select v.option_id as "optionId", v.id as "versionId", v.name, v.version from default_option_versions v
+    join default_options o on o.id = v.option_id and not o.archived
+    where v.scheme_id = ${schemeId} and v.status = 'draft'
+      and v.version = (select max(x.version) from default_option_versions x where x.option_id = v.option_id)
+    order by v.name`);
   return {
     currentDefault: await currentDefaultOf(db, schemeId),
     nextReviewDue: settings.nextReviewDue,
     lastReview: last ?? null,
     openReviews: Number(open.n),
+    optionDrafts: pending.rows as { optionId: string; versionId: string; name: string; version: number }[],
   };
-}
-
-export async function assertOptionOfScheme(db: DbOrTx, schemeId: string, optionId: string) {
-  const [o] = await db.select({ id: defaultOptions.id }).from(defaultOptions).where(and(eq(defaultOptions.id, optionId), eq(defaultOptions.schemeId, schemeId)));
-  if (!o) throw notFound('No such default option in this scheme.');
 }
