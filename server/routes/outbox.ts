@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { listOutbox, outboxAttachment, retryMessage } from '../services/mail';
 import { sendFile } from './reports';
 
@@ -14,16 +15,16 @@ export function outboxRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'get', path: '/outbox', access: 'people:manage' }, async (req, res) => {
     const q = ListQuery.parse(req.query);
-    res.json({ messages: await listOutbox(ctx, req.scheme!.id, q.limit) });
+    res.json({ messages: await listOutbox(ctx, contextOf(req), q.limit) });
   });
 
   defineRoute(r, M, { method: 'get', path: '/outbox/:messageId/attachments/:attachmentId', access: 'people:manage' }, async (req, res) => {
-    const a = await outboxAttachment(ctx, req.scheme!.id, Uuid.parse(req.params.messageId), Uuid.parse(req.params.attachmentId));
+    const a = await outboxAttachment(ctx, contextOf(req), Uuid.parse(req.params.messageId), Uuid.parse(req.params.attachmentId));
     sendFile(res, { filename: a.filename, body: a.content }, a.contentType);
   });
 
   defineRoute(r, M, { method: 'post', path: '/outbox/:messageId/retry', access: 'people:manage' }, async (req, res) => {
-    res.status(202).json(await retryMessage(ctx, req, Uuid.parse(req.params.messageId)));
+    res.status(202).json(await retryMessage(ctx, contextOf(req), Uuid.parse(req.params.messageId)));
   });
 
   return r;
