@@ -32,7 +32,7 @@ export function createApp(ctx: AppContext): Express {
     pinoHttp({
       logger: log,
       genReqId: (_req, res) => res.locals.requestId as string,
-      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'info'),
       // Who asked and about which scheme, without cookies or bodies.
       customProps: (req) => ({ userId: req.user?.id, schemeId: req.scheme?.id }),
       serializers: {

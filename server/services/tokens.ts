@@ -54,6 +54,8 @@ export async function issueLink(
   links: LinkSettings,
   t: { kind: TokenKind; email: string; schemeId?: string | null; role?: Role | null; createdBy?: string | null },
 ): Promise<TokenRow> {
+  // One issuer per person and kind at a time, so the withdrawal below sees the other's link.
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`keelson-link:${t.kind}:${emailKey(t.email)}:${t.schemeId ?? ''}`}))`);
   await revokeLinks(tx, t.kind, t.email, t.schemeId);
   const id = randomUUID();
   const [row] = await tx

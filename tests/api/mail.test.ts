@@ -3,7 +3,8 @@ import { eq } from 'drizzle-orm';
 import { auditEvents, outboxMessages, receivedMail } from '../../db/schema';
 import { startFakeSmtp, type FakeSmtp } from '../../server/email/fakeSmtp';
 import { smtpTransport, type MailTransport } from '../../server/email/transport';
-import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/background';
+import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/backgroundWorkers';
+import { linkSettings } from '../../server/auth/links';
 import { createDb } from '../../db/client';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 import { insertFinishedRun } from './route-examples/reports';
@@ -46,7 +47,7 @@ beforeAll(async () => {
   fake = await startFakeSmtp({ db: workerDb.db });
   toFake = smtpTransport({ host: fake.host, port: fake.port, secure: false, from: 'Keelson <no-reply@keelson.test>' });
   current = toFake;
-  workers = await startBackgroundWorkers({ db: workerDb.db, pool: workerDb.pool, transport: { send: (m) => current.send(m), close: () => toFake.close() }, log: () => {} });
+  workers = await startBackgroundWorkers({ db: workerDb.db, pool: workerDb.pool, transport: { send: (m) => current.send(m), close: () => toFake.close() }, links: linkSettings(s.config), log: () => {} });
   trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');
   admin = new Client(s.baseUrl);
