@@ -17,7 +17,7 @@ const NewPassword = z.string('must be text').max(MAX_PASSWORD_LENGTH, `must be a
 const ChangePasswordBody = z.object({ currentPassword: z.string().min(1, 'is required').max(1024), newPassword: NewPassword });
 const RedeemBody = z.object({ password: NewPassword, displayName: singleLine(120).optional() });
 const ForgotBody = z.object({ email: z.string().trim().email('is not an e-mail address').max(254) });
-const Token = z.string().min(20, 'is not a link code').max(100, 'is not a link code');
+const Token = z.string().max(200, 'is not a link code');
 
 const limiter = (limit: number, message: string) =>
   rateLimit({ windowMs: 15 * 60_000, limit, standardHeaders: 'draft-8', legacyHeaders: false, handler: (_req, res) => res.status(429).json({ error: 'rate_limited', message }) });

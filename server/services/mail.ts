@@ -1,9 +1,8 @@
 import { and, desc, eq, or, sql } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { outboxAttachments, outboxMessages } from '../../db/schema';
-import { can, type Permission } from '../../constants/permissions';
 import { LINK_PLACEHOLDER, LINK_REDACTED } from '../auth/links';
-import { conflict, HttpError, notFound } from '../errors';
+import { conflict, notFound } from '../errors';
 import { audit } from './audit';
 import type { ServiceContext } from './context';
 import { backgroundProducer, enqueue, MAIL_QUEUE } from '../jobs/background';
@@ -26,14 +25,6 @@ function visibleTo(schemeId: string) {
     ),
   );
 }
-
-/**
- * Who may open a message's attachments: the permission that guards the same content where it
- * is kept (a board report PDF needs reports:read, as on the report's own route). Attachments
- * of other kinds are opened by nobody through the outbox.
- */
-const ATTACHMENT_PERMISSION: Record<string, Permission> = { 'board-report': 'reports:read' };
-const mayOpenAttachments = (kind: string, sc: ServiceContext) => !!ATTACHMENT_PERMISSION[kind] && can(sc.role, ATTACHMENT_PERMISSION[kind]);
 
 /** A stored body as the outbox shows it. */
 export const redactBody = (body: string) => body.split(LINK_PLACEHOLDER).join(LINK_REDACTED);
@@ -67,7 +58,7 @@ export async function listOutbox(app: AppContext, sc: ServiceContext, limit: num
   return rows.map((r) => ({
     ...r,
     body: redactBody(r.body),
-    attachments: files.filter((f) => f.messageId === r.id).map(({ messageId: _m, ...f }) => ({ ...f, available: mayOpenAttachments(r.kind, sc) })),
+    attachments: files.filter((f) => f.messageId === r.id).map(({ messageId: _m, ...f }) => f),
   }));
 }
 
@@ -75,14 +66,6 @@ async function visibleMessage(app: AppContext, schemeId: string, id: string) {
   const [m] = await app.db.select().from(outboxMessages).where(and(eq(outboxMessages.id, id), visibleTo(schemeId)));
   if (!m) throw notFound('No such message in this scheme’s outbox.');
   return m;
-}
-
-export async function outboxAttachment(app: AppContext, sc: ServiceContext, messageId: string, attachmentId: string) {
-  const m = await visibleMessage(app, sc.schemeId!, messageId);
-  const [a] = await app.db.select().from(outboxAttachments).where(and(eq(outboxAttachments.id, attachmentId), eq(outboxAttachments.messageId, messageId)));
-  if (!a) throw notFound('No such attachment.');
-  if (!mayOpenAttachments(m.kind, sc)) throw new HttpError(403, 'Your role on this scheme does not allow opening this attachment.', undefined, 'forbidden');
-  return a;
 }
 
 /** Sends a failed message again: back to queued with a new job, in one transaction with its audit event. */
