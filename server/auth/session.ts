@@ -3,8 +3,6 @@ import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
-import { sql } from 'drizzle-orm';
-import type { DbOrTx } from '../../db/client';
 import type { AppContext } from '../context';
 import { getUser } from '../services/accounts';
 import { checkSignIn, type SignInResult } from '../services/signIn';
@@ -82,17 +80,6 @@ function absoluteLifetime(maxMs: number): RequestHandler {
     if (typeof at === 'number' && Date.now() - at <= maxMs) return next();
     req.logout(() => req.session.destroy(() => next()));
   };
-}
-
-/**
- * Ends a person's sessions — all of them, or all but `exceptSid` (the one in use, after a
- * password change). Sessions are rows of the session table keyed by passport's user id.
- */
-export async function endSessions(db: DbOrTx, userId: string, exceptSid?: string): Promise<number> {
-  const res = await db.execute(
-    sql`delete from session where sess->'passport'->>'user' = ${userId} ${exceptSid ? sql`and sid <> ${exceptSid}` : sql``}`,
-  );
-  return res.rowCount ?? 0;
 }
 
 /**

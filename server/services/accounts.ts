@@ -4,7 +4,7 @@ import { schemeRoles, schemes, signInThrottles, users } from '../../db/schema';
 import { hashPassword, verifyPassword } from '../auth/password';
 import { checkPassword } from '../auth/passwordPolicy';
 import { linkSettings, LINK_PLACEHOLDER } from '../auth/links';
-import { endSessions } from '../auth/session';
+import { endSessions } from '../auth/sessions';
 import type { AppContext } from '../context';
 import { sendMail } from '../email/outbox';
 import { HttpError } from '../errors';

@@ -2,7 +2,7 @@ import { and, desc, eq, gt, isNull, sql } from 'drizzle-orm';
 import { accessTokens, schemeRoles, schemes, users } from '../../db/schema';
 import { ROLE_LABELS, type Role } from '../../constants/permissions';
 import { linkSettings, LINK_PLACEHOLDER } from '../auth/links';
-import { endSessions } from '../auth/session';
+import { endSessions } from '../auth/sessions';
 import type { AppContext } from '../context';
 import { queueMail, sendMail } from '../email/outbox';
 import { backgroundProducer } from '../jobs/background';
