@@ -1,6 +1,6 @@
-import { eq, sql } from 'drizzle-orm';
+import { and, eq, gt, sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../../db/client';
-import { schemeRoles, schemes, signInThrottles, users } from '../../db/schema';
+import { accessTokens, schemeRoles, schemes, signInThrottles, users } from '../../db/schema';
 import { hashPassword, verifyPassword } from '../auth/password';
 import { checkPassword } from '../auth/passwordPolicy';
 import { linkSettings, LINK_PLACEHOLDER } from '../auth/links';
@@ -15,6 +15,9 @@ import { addressKey, rememberAddress } from './signIn';
 import { consumeLink, emailKey, findLiveLink, issueLink, linkExpired, RESET_HOURS } from './tokens';
 
 export { emailKey } from './tokens';
+
+/** Least time between two reset mails to one person. */
+export const RESET_RESEND_SECONDS = 60;
 
 /**
  * Account operations: who is signed in, password changes, resets, one-use links. Every
@@ -81,6 +84,12 @@ export async function changePassword(app: AppContext, sc: ServiceContext, body: 
 export async function requestPasswordReset(app: AppContext, sc: ServiceContext, email: string): Promise<boolean> {
   const u = await userByEmail(app.db, email);
   if (!u) return false;
+  // One reset mail per person per RESET_RESEND_SECONDS, however many addresses ask: no mail-bombing.
+  const [recent] = await app.db
+    .select({ id: accessTokens.id })
+    .from(accessTokens)
+    .where(and(eq(accessTokens.kind, 'password_reset'), eq(accessTokens.email, emailKey(u.email)), gt(accessTokens.createdAt, sql`now() - make_interval(secs => ${RESET_RESEND_SECONDS})`)));
+  if (recent) return false;
   const links = linkSettings(app.config);
   const t = await app.db.transaction(async (tx) => {
     const row = await issueLink(tx, links, { kind: 'password_reset', email: u.email });

@@ -339,8 +339,17 @@ describe('password resets', () => {
       const b = await new Client(limited.baseUrl).post('/auth/forgot-password', { email: 'nobody@fernleigh.example' });
       expect(a.status).toBe(200);
       expect(a.body).toEqual(b.body);
+      await eventually('the first reset link', async () => (await limited.db.select().from(accessTokens).where(eq(accessTokens.email, 'board@fernleigh.example'))).length === 1);
+      // A second request within a minute sends nothing more (no mail-bombing one person) ...
       expect((await new Client(limited.baseUrl).post('/auth/forgot-password', { email: 'board@fernleigh.example' })).status).toBe(200);
+      await new Promise((r) => setTimeout(r, 1500));
+      expect((await limited.db.select().from(accessTokens).where(eq(accessTokens.email, 'board@fernleigh.example'))).length).toBe(1);
+      // ... and the fourth request from this address is refused.
       expect((await new Client(limited.baseUrl).post('/auth/forgot-password', { email: 'board@fernleigh.example' })).status).toBe(429);
+      // A later request (another address) issues a new link, and the earlier one stops working.
+      await limited.db.update(accessTokens).set({ createdAt: new Date(Date.now() - 120_000) }).where(eq(accessTokens.email, 'board@fernleigh.example'));
+      const other = new Client(limited.baseUrl);
+      expect((await other.call('POST', '/auth/forgot-password', { email: 'board@fernleigh.example' }, { 'X-Forwarded-For': '192.0.2.77' })).status).toBe(200);
       const live = await eventually('two reset links issued', async () => {
         const rows = await limited.db.select().from(accessTokens).where(and(eq(accessTokens.email, 'board@fernleigh.example'), eq(accessTokens.kind, 'password_reset')));
         return rows.length === 2 ? rows : null;

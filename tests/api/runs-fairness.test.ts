@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq, inArray } from 'drizzle-orm';
 import { assumptionSets, defaultOptions, illustrativeMembers, projectionRuns } from '../../db/schema';
 import { enqueueRun, producerFor } from '../../server/jobs/queue';
-import { startRunWorker, type RunWorker } from '../../server/jobs';
+import { processRun, startRunWorker, type RunWorker } from '../../server/jobs';
 import { createDb } from '../../db/client';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 
@@ -65,5 +65,16 @@ describe('runs of several schemes', () => {
       if (Date.now() - t > 150_000) throw new Error(`runs not done: ${rows.map((r) => r.status).join(', ')}`);
       await new Promise((r) => setTimeout(r, 200));
     }
+  });
+
+  it("lets a scheme run only its share at once: the next run of a scheme with a live run waits its turn", async () => {
+    const [a1] = await s.db.select().from(projectionRuns).where(eq(projectionRuns.schemeId, s.schemeId)).limit(1);
+    const [busy] = await s.db.insert(projectionRuns).values({ schemeId: s.secondSchemeId, status: 'running', heartbeatAt: new Date(), assumptionsDraft: false, seed: 1, paths: 300, riskAversion: 2, input: a1.input }).returning();
+    const [next] = await s.db.insert(projectionRuns).values({ schemeId: s.secondSchemeId, status: 'queued', assumptionsDraft: false, seed: 2, paths: 300, riskAversion: 2, input: a1.input }).returning();
+    expect(await processRun(s.db, next.id, { threads: 1 })).toBe('deferred');
+    expect((await s.db.select().from(projectionRuns).where(eq(projectionRuns.id, next.id)))[0].status).toBe('queued');
+    // Once the other run's worker has gone quiet (or it finished), this one may start.
+    await s.db.update(projectionRuns).set({ heartbeatAt: new Date(Date.now() - 3_600_000) }).where(eq(projectionRuns.id, busy.id));
+    expect(await processRun(s.db, next.id, { threads: 1 })).toBe('done');
   });
 });
