@@ -38,7 +38,7 @@ export default function OneUseLink() {
 
 function TextLink({ href, label }: { href: string; label: string }) {
   return (
-    <View style={{ marginTop: 16 }}>
+    <View style={{ marginVertical: 16 }}>
       <Link href={href as never} style={[type.body, { color: colors.primary }]}>
         {label}
       </Link>

@@ -51,8 +51,9 @@ function PeopleManager({ schemeId, schemeName }: { schemeId: string; schemeName:
           </Card>
           {people.data.pending.length ? (
             <Card title="Invitations not yet accepted">
+              {/* Keyed by address: a re-sent invitation gets a new id but stays the same row. */}
               {people.data.pending.map((p) => (
-                <PendingRow key={p.id} invitation={p} schemeId={schemeId} />
+                <PendingRow key={p.email} invitation={p} schemeId={schemeId} />
               ))}
             </Card>
           ) : null}
