@@ -9,13 +9,19 @@ const ACTION_TEXT: Record<string, string> = {
   'sign-in': 'signed in',
   'sign-in.failed': 'failed to sign in',
   'sign-out': 'signed out',
-  'invitation.created': 'invited someone',
+  'sign-in.needs-confirmation': 'signed in from a new place while the account was guarded (e-mail confirmation asked)',
+  'sign-in.confirmation-sent': 'was e-mailed a sign-in confirmation',
+  'sign-in.confirmed': 'confirmed a sign-in by e-mail',
+  'invitation.created': 'invited someone (by e-mail)',
+  'invitation.resent': 'sent an invitation again',
+  'invitation.cancelled': 'cancelled an invitation',
   'invitation.accepted': 'accepted an invitation',
   'role.changed': 'changed a role',
   'role.removed': 'removed someone from the scheme',
   'password.changed': 'changed their password',
   'password.reset': 'reset their password',
-  'password-reset.issued': 'issued a password-reset link',
+  'password-reset.issued': "e-mailed someone a password-reset link and ended their sessions",
+  'password-reset.requested': 'asked for a password-reset link',
 };
 
 function describe(v: unknown): string {
