@@ -9,7 +9,7 @@ const ACTION_TEXT: Record<string, string> = {
   'sign-in': 'signed in',
   'sign-in.failed': 'failed to sign in',
   'sign-out': 'signed out',
-  'sign-in.needs-confirmation': 'signed in from a new place while the account was guarded (e-mail confirmation asked)',
+  'sign-in.needs-confirmation': 'tried to sign in from a new place while the account was guarded (sign-in needs e-mail confirmation)',
   'sign-in.confirmation-sent': 'was e-mailed a sign-in confirmation',
   'sign-in.confirmed': 'confirmed a sign-in by e-mail',
   'invitation.created': 'invited someone (by e-mail)',
