@@ -5,7 +5,7 @@ const expoConfig = require('eslint-config-expo/flat');
 module.exports = defineConfig([
   expoConfig,
   {
-    ignores: ['dist/**', 'node_modules/**', '.pgdata/**', 'test-artifacts/**', 'db/migrations/**', '.expo/**', 'tmp_*', 'expo-env.d.ts'],
+    ignores: ['dist/**', 'build/**', 'node_modules/**', '.pgdata/**', 'test-artifacts/**', 'db/migrations/**', '.expo/**', 'tmp_*', 'expo-env.d.ts'],
   },
   {
     rules: {

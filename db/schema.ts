@@ -77,31 +77,61 @@ export const sessions = pgTable(
 );
 
 /**
- * Failed sign-ins by e-mail address (known or not, so the answer never tells
- * which addresses exist). Repeated failures lock the address for a while.
+ * Failed sign-ins, per account (`account:<e-mail>`, known or not, so the answers never tell
+ * which addresses exist) and per client address (`address:<ip>`). Repeated failures bring
+ * progressively longer delays (server/services/signIn.ts); nothing locks for good.
  */
-export const signInFailures = pgTable('sign_in_failures', {
-  emailKey: varchar('email_key', { length: 254 }).primaryKey(),
+export const signInThrottles = pgTable('sign_in_throttles', {
+  key: varchar('key', { length: 300 }).primaryKey(),
   failures: integer('failures').notNull().default(0),
   lastFailureAt: timestamp('last_failure_at', { withTimezone: true }).notNull().defaultNow(),
-  lockedUntil: timestamp('locked_until', { withTimezone: true }),
+  /** Until then: an address waits before its next attempt; an account needs e-mail confirmation from new addresses. */
+  waitUntil: timestamp('wait_until', { withTimezone: true }),
 });
 
-export const tokenKindEnum = pgEnum('token_kind', ['invitation', 'password_reset']);
+/** Client addresses a person has signed in from (IPv6 by /64), so a new one can be told apart. */
+export const signInAddresses = pgTable(
+  'sign_in_addresses',
+  {
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    address: varchar('address', { length: 64 }).notNull(),
+    firstSeenAt: timestamp('first_seen_at', { withTimezone: true }).notNull().defaultNow(),
+    lastSeenAt: timestamp('last_seen_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.address] })],
+);
 
-/** Single-use, expiring links (invitations, password resets). Only a SHA-256 of the token is stored. */
-export const accessTokens = pgTable('access_tokens', {
-  id: uuid('id').primaryKey().defaultRandom(),
-  kind: tokenKindEnum('kind').notNull(),
-  tokenHash: varchar('token_hash', { length: 64 }).notNull().unique(),
-  email: varchar('email', { length: 254 }).notNull(),
-  schemeId: uuid('scheme_id').references(() => schemes.id, { onDelete: 'cascade' }),
-  role: roleEnum('role'),
-  createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
-  expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
-  usedAt: timestamp('used_at', { withTimezone: true }),
-  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
-});
+export const tokenKindEnum = pgEnum('token_kind', ['invitation', 'password_reset', 'sign_in_confirmation']);
+
+/**
+ * Single-use, expiring links (invitations, password resets, sign-in confirmations). The token
+ * is an HMAC of the row id under a key derived from SESSION_SECRET, so it is never stored:
+ * only its SHA-256 is (for look-up), and the mail job recomputes it when it sends the message.
+ * At most one live link per invitation (scheme, address) and per person for the other kinds.
+ */
+export const accessTokens = pgTable(
+  'access_tokens',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    kind: tokenKindEnum('kind').notNull(),
+    tokenHash: varchar('token_hash', { length: 64 }).notNull().unique(),
+    email: varchar('email', { length: 254 }).notNull(),
+    schemeId: uuid('scheme_id').references(() => schemes.id, { onDelete: 'cascade' }),
+    role: roleEnum('role'),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    usedAt: timestamp('used_at', { withTimezone: true }),
+    /** Withdrawn: cancelled, replaced by a newer link, or voided when another was used. */
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex('access_tokens_one_invitation').on(t.schemeId, t.email).where(sql`kind = 'invitation' and used_at is null and revoked_at is null`),
+    uniqueIndex('access_tokens_one_personal').on(t.kind, t.email).where(sql`kind <> 'invitation' and used_at is null and revoked_at is null`),
+  ],
+);
 
 /** Who did what, when, in which scheme, with before/after values where they change. */
 export const auditEvents = pgTable(
@@ -343,6 +373,8 @@ export const projectionRuns = pgTable(
     result: jsonb('result'),
     engineVersion: varchar('engine_version', { length: 32 }),
     error: text('error'),
+    /** Written every few seconds by the worker running it; an old one means the worker was lost. */
+    heartbeatAt: timestamp('heartbeat_at', { withTimezone: true }),
     rerunOf: uuid('rerun_of'),
     /** The scheme's current default option when the run was requested (null: none was marked). */
     baselineOptionId: uuid('baseline_option_id').references(() => defaultOptions.id, { onDelete: 'set null' }),
@@ -442,6 +474,8 @@ export const outboxMessages = pgTable(
     lastError: text('last_error'),
     /** The receiving server's message id once sent. */
     providerId: varchar('provider_id', { length: 300 }),
+    /** The one-use link the body's {{link}} stands for; the job recomputes its token when sending (never stored). */
+    linkTokenId: uuid('link_token_id').references(() => accessTokens.id, { onDelete: 'set null' }),
     createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     lastAttemptAt: timestamp('last_attempt_at', { withTimezone: true }),

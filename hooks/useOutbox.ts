@@ -18,8 +18,6 @@ export type OutboxMessage = {
 
 export const outboxKeys = { list: (schemeId: string) => ['schemes', schemeId, 'outbox'] as const };
 
-export const attachmentUrl = (schemeId: string, messageId: string, attachmentId: string) => `/api/schemes/${schemeId}/outbox/${messageId}/attachments/${attachmentId}`;
-
 /** The outbox, polled every few seconds while something is still on its way. */
 export function useOutbox(schemeId: string | undefined) {
   return useQuery({

@@ -22,10 +22,30 @@ export function usePeople(schemeId: string | undefined) {
   });
 }
 
+/** What the server answers for a sent invitation: where it went, never its link. */
+export type InvitationSent = { id: string; email: string; role: Role; expiresAt: string; emailedTo: string };
+
 export function useInvite(schemeId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { email: string; role: Role }) => api<{ email: string; role: Role; link: string; expiresAt: string }>(`/schemes/${schemeId}/invitations`, { body }),
+    mutationFn: (body: { email: string; role: Role }) => api<InvitationSent>(`/schemes/${schemeId}/invitations`, { body }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: peopleKeys.all(schemeId) }),
+  });
+}
+
+/** Sends a waiting invitation again with a new link (the old one stops working). */
+export function useResendInvitation(schemeId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (invitationId: string) => api<InvitationSent>(`/schemes/${schemeId}/invitations/${invitationId}/resend`, { method: 'POST', body: {} }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: peopleKeys.all(schemeId) }),
+  });
+}
+
+export function useCancelInvitation(schemeId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (invitationId: string) => api<{ ok: true }>(`/schemes/${schemeId}/invitations/${invitationId}`, { method: 'DELETE' }),
     onSuccess: () => qc.invalidateQueries({ queryKey: peopleKeys.all(schemeId) }),
   });
 }
@@ -46,8 +66,9 @@ export function useRemovePerson(schemeId: string) {
   });
 }
 
+/** E-mails the person a password-reset link and ends their sessions. */
 export function useResetLink(schemeId: string) {
-  return useMutation({ mutationFn: (userId: string) => api<{ link: string; expiresAt: string }>(`/schemes/${schemeId}/people/${userId}/reset-link`, { method: 'POST' }) });
+  return useMutation({ mutationFn: (userId: string) => api<{ emailedTo: string; expiresAt: string; sessionsEnded: number }>(`/schemes/${schemeId}/people/${userId}/reset-link`, { method: 'POST', body: {} }) });
 }
 
 export function useActivity(schemeId: string | undefined) {

@@ -27,6 +27,8 @@ export type RunSummary = {
   rerunOf: string | null;
   createdAt: string;
   finishedAt: string | null;
+  /** Running, but its worker has stopped responding; it is retried shortly. */
+  stalled: boolean;
 };
 
 export type PairFigures = Wire<ServerPairFigures>;

@@ -23,14 +23,18 @@ export function useSession() {
   });
 }
 
+/** A sign-in that needs e-mail confirmation first (after failed attempts, from a new address). */
+export type SignInPending = { error: 'confirmation_needed'; message: string };
+
 export function useSignIn() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { email: string; password: string }) => api<Me>('/auth/sign-in', { body }),
-    onSuccess: (me) => {
+    mutationFn: (body: { email: string; password: string }) => api<Me | SignInPending>('/auth/sign-in', { body }),
+    onSuccess: (r) => {
+      if ('error' in r) return;
       // Drop another user's cached data, but keep the session query its observers watch.
       qc.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.all[0] });
-      qc.setQueryData(sessionKeys.me(), me);
+      qc.setQueryData(sessionKeys.me(), r);
     },
   });
 }

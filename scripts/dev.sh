@@ -4,7 +4,8 @@
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 prepare_app
-export NODE_ENV=development PORT="${PORT:-8080}"
+# One process in watch mode: the workers run inside the server here.
+export NODE_ENV=development PORT="${PORT:-8080}" KEELSON_INLINE_WORKER=true
 npx tsx watch server/index.ts &
 API=$!
 trap 'kill $API 2>/dev/null || true' EXIT INT TERM

@@ -51,10 +51,30 @@ ensure_chromium() {
   fi
 }
 
+server_build_stale() {
+  [[ ! -f build/.stamp ]] && return 0
+  [[ -n "$(find server db simulation constants scripts/build-server.ts package-lock.json -newer build/.stamp -type f 2>/dev/null | head -1)" ]]
+}
+
+# The compiled server and worker (build/, git-ignored): rebuilt when a source file is newer.
+ensure_server_build() {
+  if server_build_stale; then
+    log "building the server (esbuild)..."
+    npx tsx scripts/build-server.ts >&2 || { log "server build failed"; exit 1; }
+  fi
+}
+
 # Packages, database, migrations and (when empty) the demo scheme: what start and dev both need.
+# `npm start` runs them from the compiled build; `npm run dev` through tsx.
 prepare_app() {
   ensure_node_modules
   ensure_database
-  npx tsx db/migrate.ts
-  npx tsx db/seed.ts
+  if [[ "${1:-}" == "built" ]]; then
+    ensure_server_build
+    node build/migrate.js
+    node build/seed.js
+  else
+    npx tsx db/migrate.ts
+    npx tsx db/seed.ts
+  fi
 }

@@ -2,18 +2,21 @@ import fs from 'node:fs';
 import path from 'node:path';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
-import { errorHandler, notFound, rejectNulCharacters, requestId } from './errors';
+import { errorHandler, noStore, notFound, refuseDeepJson, rejectNulCharacters, requestId } from './errors';
+import { log } from './log';
 import { healthRouter } from './routes/health';
 import { authRouter } from './routes/auth';
 import { peopleRouter } from './routes/people';
+import { schemesRouter } from './routes/schemes';
+import { activityRouter } from './routes/activity';
 import { schemeDataRouters } from './routes/schemeData';
 import { runsRouter } from './routes/runs';
 import { reportsRouter } from './routes/reports';
 import { statementsRouter } from './routes/statements';
 import { outboxRouter } from './routes/outbox';
 import { reviewsRouter } from './routes/reviews';
-import { mailSender } from './email/outbox';
 import { installSessions, requireSameSiteWrite } from './auth/session';
 
 /**
@@ -23,8 +26,22 @@ import { installSessions, requireSameSiteWrite } from './auth/session';
 export function createApp(ctx: AppContext): Express {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // Whose X-Forwarded-For to believe (TRUST_PROXY): sign-in delays and rate limits key on req.ip.
+  app.set('trust proxy', ctx.config.TRUST_PROXY);
   app.use(requestId);
+  app.use(
+    pinoHttp({
+      logger: log,
+      genReqId: (_req, res) => res.locals.requestId as string,
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'info'),
+      // Who asked and about which scheme, without cookies or bodies.
+      customProps: (req) => ({ userId: req.user?.id, schemeId: req.scheme?.id }),
+      serializers: {
+        req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url.replace(/([?&]token=)[^&]+/, '$1…').replace(/(\/links\/)[^/?]+/, '$1…') }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+    }),
+  );
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -46,16 +63,15 @@ export function createApp(ctx: AppContext): Express {
   );
 
   app.locals.db = ctx.db;
-  // Invitations, password resets and reports all go through the outbox and its delivery job.
-  app.locals.sendMail = mailSender(ctx.db, ctx.pool);
   const api = express.Router();
-  api.use(express.json({ limit: '1mb' }));
+  api.use(noStore);
+  api.use(express.json({ limit: '1mb', verify: refuseDeepJson }));
   api.use(rejectNulCharacters);
   api.use(healthRouter(ctx));
   installSessions(api, app, ctx);
-  api.use(requireSameSiteWrite);
+  api.use(requireSameSiteWrite(ctx.config.PUBLIC_URL));
   api.use(authRouter(ctx));
-  api.use(peopleRouter(ctx));
+  api.use(schemesRouter(ctx), peopleRouter(ctx), activityRouter(ctx));
   api.use(schemeDataRouters(ctx));
   api.use(runsRouter(ctx));
   api.use(reportsRouter(ctx), statementsRouter(ctx), outboxRouter(ctx), reviewsRouter(ctx));

@@ -1,73 +1,52 @@
 import http from 'node:http';
 import { createDb } from '../db/client';
 import { createApp } from './app';
-import { loadConfig } from './config';
-import { startMailAndExports } from './email/start';
-import { startRunWorker, type RunWorker } from './jobs';
+import { log } from './log';
+import { configOrExit, keepRunningOnRejections, onStopSignal, startWhenReachable } from './processes';
+import { startWorkers, type Workers } from './workers';
 
-async function main() {
-  let config;
-  try {
-    config = loadConfig();
-  } catch (err) {
-    console.error(`keelson: ${(err as Error).message}`);
-    process.exit(2);
-  }
-  const { db, pool } = createDb(config.DATABASE_URL);
-  const app = createApp({ db, pool, config });
-  const server = http.createServer(app);
-  // Mail delivery and statement exports (and the local stand-in mail server unless SMTP_HOST is set).
-  const background = await startMailAndExports({ db, pool, config }).catch((err: Error) => {
-    console.error(`keelson: mail and export workers failed to start: ${err.message}`);
-    process.exit(1);
-  });
+/**
+ * The API and web server. Projection runs, mail and exports run in the worker process
+ * (`npm run worker`; `npm start` starts both) unless KEELSON_INLINE_WORKER=true.
+ */
+function main() {
+  keepRunningOnRejections();
+  const config = configOrExit('the server');
+  const { db, pool } = createDb(config.DATABASE_URL, 10, (err) => log.warn({ reason: err.message }, 'database connection lost; requests answer 503 until it is back'));
+  const ctx = { db, pool, config };
+  const server = http.createServer(createApp(ctx));
 
   server.on('error', (err: NodeJS.ErrnoException) => {
-    if (err.code === 'EADDRINUSE') {
-      console.error(`keelson: port ${config.PORT} on ${config.HOST} is already in use. Stop the other program or start with PORT=<another port>.`);
-    } else {
-      console.error('keelson: server failed to start:', err.message);
-    }
+    if (err.code === 'EADDRINUSE') log.fatal(`port ${config.PORT} on ${config.HOST} is already in use. Stop the other program or start with PORT=<another port>.`);
+    else log.fatal({ err }, 'server failed to start');
     process.exit(1);
   });
-
   server.listen(config.PORT, config.HOST, () => {
     const url = `http://${config.HOST === '0.0.0.0' ? 'localhost' : config.HOST}:${config.PORT}`;
-    console.log(`keelson: serving ${url}  (API at ${url}/api, health at ${url}/api/health)`);
+    log.info({ url, publicUrl: config.PUBLIC_URL }, `serving ${url} (API at ${url}/api, health at ${url}/api/health)`);
   });
 
-  // A projection worker in this process unless KEELSON_INLINE_WORKER=false (then run `npm run worker`).
-  let worker: RunWorker | null = null;
-  if (process.env.KEELSON_INLINE_WORKER !== 'false') {
-    startRunWorker({ db, pool })
-      .then((w) => {
-        worker = w;
-        console.log('keelson: projection worker running in this process (KEELSON_INLINE_WORKER=false to turn it off)');
-      })
-      .catch((err) => console.error('keelson: projection worker failed to start:', err.message));
+  let stopping = false;
+  let workers: Workers | null = null;
+  if (process.env.KEELSON_INLINE_WORKER === 'true') {
+    void startWhenReachable('the in-process workers', () => startWorkers(ctx), () => stopping).then((w) => {
+      workers = w;
+      if (w) log.info('workers run inside the server process (KEELSON_INLINE_WORKER=true)');
+    });
+  } else {
+    log.info('projection runs, mail and exports are handled by the worker process (npm run worker; npm start starts it)');
   }
 
-  let stopping = false;
-  const stop = (signal: string) => {
-    if (stopping) return;
+  onStopSignal('server', async () => {
     stopping = true;
-    console.log(`keelson: ${signal} received, stopping the server...`);
-    server.close(() => {
-      (worker ? worker.stop() : Promise.resolve())
-        .catch(() => undefined)
-        .then(() => background.stop())
-        .catch(() => undefined)
-        .then(() => pool.end())
-        .finally(() => {
-          console.log('keelson: server stopped (the database keeps running; `npm run db:stop` stops it)');
-          process.exit(0);
-        });
+    await new Promise<void>((resolve) => {
+      server.close(() => resolve());
+      server.closeAllConnections?.();
     });
-    server.closeAllConnections?.();
-    setTimeout(() => process.exit(0), 8000).unref();
-  };
-  process.on('SIGINT', () => stop('SIGINT'));
-  process.on('SIGTERM', () => stop('SIGTERM'));
+    if (workers) await workers.stop();
+    await pool.end().catch(() => undefined);
+    log.info('server stopped (the database keeps running; `npm run db:stop` stops it)');
+  });
 }
 
-void main();
+main();

@@ -3,6 +3,7 @@ import { Text } from 'react-native';
 import { Button, Card, Field, Notice, Screen, styles } from '@/components/ui';
 import { SchemePicker } from '@/components/SchemePicker';
 import { ROLE_LABELS } from '@/constants/permissions';
+import { PASSWORD_RULE } from '@/constants/passwords';
 import { fieldError } from '@/hooks/api';
 import { useChangePassword } from '@/hooks/useAccount';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
@@ -30,9 +31,12 @@ export default function Account() {
         )}
       </Card>
       <Card title="Change password">
-        {change.isSuccess ? <Notice tone="success">Your password is changed.</Notice> : null}
+        <Text style={styles.muted}>Changing it signs you out everywhere else.</Text>
+        {change.data ? (
+          <Notice tone="success">{`Your password is changed${change.data.otherSessionsEnded ? `, and ${change.data.otherSessionsEnded} other ${change.data.otherSessionsEnded === 1 ? 'session was' : 'sessions were'} signed out` : ''}. We have e-mailed you to confirm.`}</Notice>
+        ) : null}
         <Field label="Current password" value={current} onChangeText={setCurrent} secureTextEntry autoComplete="current-password" error={fieldError(change.error, 'currentPassword')} />
-        <Field label="New password" value={next} onChangeText={setNext} secureTextEntry autoComplete="new-password" hint="At least 10 characters." error={fieldError(change.error, 'newPassword')} />
+        <Field label="New password" value={next} onChangeText={setNext} secureTextEntry autoComplete="new-password" hint={PASSWORD_RULE} error={fieldError(change.error, 'newPassword')} />
         <Field label="New password again" value={repeat} onChangeText={setRepeat} secureTextEntry autoComplete="new-password" error={mismatch ? 'does not match' : undefined} />
         <Button
           label="Change password"

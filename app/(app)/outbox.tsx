@@ -1,9 +1,8 @@
 import { Text, View } from 'react-native';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
-import { DownloadLink } from '@/components/DownloadLink';
 import { colors, radius, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
-import { attachmentUrl, useOutbox, useRetryMessage, type OutboxMessage } from '@/hooks/useOutbox';
+import { useOutbox, useRetryMessage, type OutboxMessage } from '@/hooks/useOutbox';
 
 const STATUS: Record<OutboxMessage['status'], { label: string; fg: string; bg: string }> = {
   queued: { label: 'Waiting to send', fg: colors.primary, bg: colors.primaryTint },
@@ -26,7 +25,7 @@ export default function Outbox() {
     );
   }
   return (
-    <Screen title="Outbox" subtitle="Every e-mail Keelson has sent or is sending for this scheme, with its delivery status.">
+    <Screen title="Outbox" subtitle="Every e-mail Keelson has sent or is sending for this scheme, with its delivery status. One-use links are sent to their recipient only and never kept here.">
       {box.isLoading ? <Loading /> : null}
       {box.error ? <Notice tone="error">{box.error.message}</Notice> : null}
       {box.data && !box.data.messages.length ? <Notice>Nothing sent yet.</Notice> : null}
@@ -49,12 +48,16 @@ function MessageCard({ m, schemeId }: { m: OutboxMessage; schemeId: string }) {
         {m.sentAt ? ` · sent ${when(m.sentAt)}` : ''} · {m.attempts} {m.attempts === 1 ? 'attempt' : 'attempts'}
       </Text>
       {m.lastError ? <Text style={[type.caption, { color: colors.danger }]}>Last error: {m.lastError}</Text> : null}
+      {m.body ? (
+        <Text style={[type.caption, { color: colors.mutedInk }]} numberOfLines={6}>
+          {m.body}
+        </Text>
+      ) : null}
       {m.attachments.length ? (
-        <View style={styles.row}>
-          {m.attachments.map((a) => (
-            <DownloadLink key={a.id} href={attachmentUrl(schemeId, m.id, a.id)} label={`${a.filename} (${Math.max(1, Math.round(a.size / 1024))} KB)`} />
-          ))}
-        </View>
+        <Text style={[type.caption, { color: colors.mutedInk }]}>
+          Attached: {m.attachments.map((a) => `${a.filename} (${Math.max(1, Math.round(a.size / 1024))} KB)`).join(', ')}
+          {m.kind === 'board-report' ? ' — the report itself is under Reports, for the roles that may read it.' : ''}
+        </Text>
       ) : null}
       {m.status === 'failed' ? (
         <View style={styles.row}>

@@ -1,14 +1,13 @@
 import { useState } from 'react';
 import { Text, View } from 'react-native';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
-import { CopyableLink } from '@/components/CopyableLink';
 import { RolePicker } from '@/components/RolePicker';
 import { ROLE_LABELS, type Role } from '@/constants/permissions';
 import { colors, space, type } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useSession } from '@/hooks/useSession';
-import { useChangeRole, useInvite, usePeople, useRemovePerson, useResetLink, type Person } from '@/hooks/usePeople';
+import { useCancelInvitation, useChangeRole, useInvite, usePeople, useRemovePerson, useResendInvitation, useResetLink, type PendingInvitation, type Person } from '@/hooks/usePeople';
 
 export default function People() {
   const { scheme, can } = useCurrentScheme();
@@ -35,9 +34,11 @@ function PeopleManager({ schemeId, schemeName }: { schemeId: string; schemeName:
         <RolePicker value={role} onChange={setRole} />
         {invite.error && !fieldError(invite.error, 'email') ? <Notice tone="error">{invite.error.message}</Notice> : null}
         <View style={styles.row}>
-          <Button label="Create invitation" onPress={() => invite.mutate({ email: email.trim(), role }, { onSuccess: () => setEmail('') })} busy={invite.isPending} disabled={!email} />
+          <Button label="Send invitation" onPress={() => invite.mutate({ email: email.trim(), role }, { onSuccess: () => setEmail('') })} busy={invite.isPending} disabled={!email} />
         </View>
-        {invite.data ? <CopyableLink link={invite.data.link} note={`Send this link to ${invite.data.email}. It works once, within 7 days.`} /> : null}
+        {invite.data ? (
+          <Notice tone="success">{`Invitation e-mailed to ${invite.data.emailedTo}. The link in it works once, within 7 days; if they already use Keelson they accept it by signing in with their own password.`}</Notice>
+        ) : null}
       </Card>
       {people.isLoading ? <Loading /> : null}
       {people.error ? <Notice tone="error">{people.error.message}</Notice> : null}
@@ -50,13 +51,9 @@ function PeopleManager({ schemeId, schemeName }: { schemeId: string; schemeName:
           </Card>
           {people.data.pending.length ? (
             <Card title="Invitations not yet accepted">
+              {/* Keyed by address: a re-sent invitation gets a new id but stays the same row. */}
               {people.data.pending.map((p) => (
-                <View key={p.id} style={{ paddingVertical: space.sm, borderTopWidth: 1, borderColor: colors.rule }}>
-                  <Text style={styles.body}>{p.email}</Text>
-                  <Text style={styles.muted}>
-                    {ROLE_LABELS[p.role]} · expires {new Date(p.expiresAt).toLocaleDateString('en-GB')}
-                  </Text>
-                </View>
+                <PendingRow key={p.email} invitation={p} schemeId={schemeId} />
               ))}
             </Card>
           ) : null}
@@ -90,7 +87,7 @@ function PersonRow({ person, schemeId }: { person: Person; schemeId: string }) {
         {!self && !editing ? (
           <View style={styles.row}>
             <Button kind="secondary" label="Change role" onPress={() => setEditing(true)} />
-            <Button kind="secondary" label="Reset link" onPress={() => reset.mutate(person.id)} busy={reset.isPending} />
+            <Button kind="secondary" label="Send reset link" onPress={() => reset.mutate(person.id)} busy={reset.isPending} />
           </View>
         ) : null}
       </View>
@@ -105,7 +102,29 @@ function PersonRow({ person, schemeId }: { person: Person; schemeId: string }) {
           {change.error || remove.error ? <Notice tone="error">{(change.error ?? remove.error)!.message}</Notice> : null}
         </View>
       ) : null}
-      {reset.data ? <CopyableLink link={reset.data.link} note="Pass this password-reset link on. It works once, within 2 hours." /> : null}
+      {reset.data ? (
+        <Notice tone="success">{`A password-reset link was e-mailed to ${reset.data.emailedTo} (it works once, within 2 hours), and every session of theirs was signed out.`}</Notice>
+      ) : null}
+      {reset.error ? <Notice tone="error">{reset.error.message}</Notice> : null}
+    </View>
+  );
+}
+
+function PendingRow({ invitation: p, schemeId }: { invitation: PendingInvitation; schemeId: string }) {
+  const resend = useResendInvitation(schemeId);
+  const cancel = useCancelInvitation(schemeId);
+  return (
+    <View style={{ paddingVertical: space.sm, borderTopWidth: 1, borderColor: colors.rule, gap: space.xs }} testID={`invitation-${p.email}`}>
+      <Text style={styles.body}>{p.email}</Text>
+      <Text style={styles.muted}>
+        {ROLE_LABELS[p.role]} · e-mailed {new Date(p.createdAt).toLocaleDateString('en-GB')} · expires {new Date(p.expiresAt).toLocaleDateString('en-GB')}
+      </Text>
+      <View style={styles.row}>
+        <Button kind="secondary" label="Send again" onPress={() => resend.mutate(p.id)} busy={resend.isPending} />
+        <Button kind="danger" label="Cancel invitation" onPress={() => cancel.mutate(p.id)} busy={cancel.isPending} />
+      </View>
+      {resend.data ? <Notice tone="success">{`Sent again to ${resend.data.emailedTo} with a new link; the earlier link no longer works.`}</Notice> : null}
+      {resend.error || cancel.error ? <Notice tone="error">{(resend.error ?? cancel.error)!.message}</Notice> : null}
     </View>
   );
 }

@@ -14,6 +14,7 @@ export default function SignIn() {
   return (
     <AuthFrame title="Sign in" lead="Projections and comparisons of your scheme's default options.">
       {signIn.error ? <Notice tone="error">{signIn.error.message}</Notice> : null}
+      {signIn.data && 'error' in signIn.data ? <Notice tone="warning">{signIn.data.message}</Notice> : null}
       <Field label="E-mail address" testID="email" value={email} onChangeText={setEmail} autoCapitalize="none" autoComplete="email" inputMode="email" />
       <Field label="Password" testID="password" value={password} onChangeText={setPassword} secureTextEntry autoComplete="current-password" onSubmitEditing={submit} />
       <Button testID="sign-in" label="Sign in" onPress={submit} busy={signIn.isPending} disabled={!email || !password} />

@@ -21,6 +21,9 @@ declare global {
   }
 }
 
+/** A UUID as PostgreSQL accepts it (anything else would make the query fail rather than find nothing). */
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
 export const requireSignedIn: RequestHandler = (req, _res, next) => {
   if (!req.user) return next(new HttpError(401, 'Please sign in.', undefined, 'unauthenticated'));
   next();
@@ -36,7 +39,7 @@ export function requirePermission(permission: Permission): RequestHandler {
       const schemeId = req.params.schemeId as string | undefined;
       const db = req.app.locals.db as Db;
       if (!schemeId) return next(new Error(`route guarded by ${permission} has no :schemeId`));
-      if (!/^[0-9a-f-]{36}$/i.test(schemeId)) return next(notFound('No such scheme.'));
+      if (!UUID.test(schemeId)) return next(notFound('No such scheme.'));
       const [row] = await db
         .select({ id: schemes.id, name: schemes.name, currency: schemes.currency, role: schemeRoles.role })
         .from(schemeRoles)

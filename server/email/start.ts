@@ -1,18 +1,20 @@
 import type { Pool } from 'pg';
 import type { Db } from '../../db/client';
+import { linkSettings } from '../auth/links';
 import type { Config } from '../config';
-import { startBackgroundWorkers } from '../jobs/background';
+import { startBackgroundWorkers } from '../jobs/backgroundWorkers';
 import { startReviewReminders } from '../jobs/reminders';
+import { log as rootLog } from '../log';
 import { startFakeSmtp, type FakeSmtp } from './fakeSmtp';
 import { smtpTransport } from './transport';
 
 /**
- * Starts mail delivery and statement-export workers for the server process. Without
- * SMTP_HOST, mail goes to a local stand-in server on loopback that keeps it in the database.
+ * Starts mail delivery and statement-export workers. Without SMTP_HOST, mail goes to a local
+ * stand-in server on loopback that keeps it in the database.
  */
 export async function startMailAndExports(opts: { db: Db; pool: Pool; config: Config; log?: (m: string) => void }) {
   const c = opts.config;
-  const log = opts.log ?? ((m: string) => console.log(`keelson: ${m}`));
+  const log = opts.log ?? ((m: string) => rootLog.info(m));
   let fake: FakeSmtp | null = null;
   let settings;
   if (c.SMTP_HOST) {
@@ -22,7 +24,7 @@ export async function startMailAndExports(opts: { db: Db; pool: Pool; config: Co
     log(`no SMTP_HOST set: mail goes to the local stand-in mail server on ${fake.host}:${fake.port} and is kept in the database (Outbox shows it)`);
     settings = { host: fake.host, port: fake.port, secure: false, from: c.SMTP_FROM };
   }
-  const workers = await startBackgroundWorkers({ db: opts.db, pool: opts.pool, transport: smtpTransport(settings), log });
+  const workers = await startBackgroundWorkers({ db: opts.db, pool: opts.pool, transport: smtpTransport(settings), links: linkSettings(c), log });
   const reminders = await startReviewReminders({ db: opts.db, pool: opts.pool, log });
   return {
     fake,

@@ -6,6 +6,10 @@ export type OutgoingEnvelope = {
   to: string[];
   subject: string;
   text: string;
+  /** Stable per outbox row: the same on every attempt. */
+  messageId: string;
+  /** 1 for the first attempt; sent as X-Keelson-Attempt so a repeat is visible in the headers too. */
+  attempt: number;
   attachments: { filename: string; contentType: string; content: Buffer }[];
 };
 
@@ -24,9 +28,17 @@ export function smtpTransport(s: SmtpSettings): MailTransport {
   });
   return {
     send: async (m) => {
-      const info = await t.sendMail({ from: s.from, to: m.to, subject: m.subject, text: m.text, attachments: m.attachments });
+      const info = await t.sendMail({
+        from: s.from,
+        to: m.to,
+        subject: m.subject,
+        text: m.text,
+        messageId: m.messageId,
+        headers: { 'X-Keelson-Attempt': String(m.attempt) },
+        attachments: m.attachments,
+      });
       if (info.rejected?.length) throw new Error(`the mail server refused ${info.rejected.map(String).join(', ')}`);
-      return { providerId: String(info.messageId ?? info.response ?? '') };
+      return { providerId: String(info.response ?? info.messageId ?? '') };
     },
     close: () => t.close(),
   };

@@ -1,15 +1,14 @@
 import { randomUUID } from 'node:crypto';
 import type PgBoss from 'pg-boss';
 import type { Pool } from 'pg';
-import type { Db, DbOrTx } from '../../db/client';
-import { createBoss, ensureQueue, envNumber, producerFor, queueSettings, transactionExecutor } from './queue';
-import { processMail } from '../email/outbox';
-import type { MailTransport } from '../email/transport';
-import { processStatementExport } from '../services/statements';
+import type { DbOrTx } from '../../db/client';
+import { ensureQueue, envNumber, producerFor, transactionExecutor } from './queue';
 
 /**
  * Queues for mail delivery and statement exports, next to the projection queue in the same
- * pg-boss schema. Jobs carry only an id; the row holds the rest and its status.
+ * pg-boss schema. Jobs carry only an id; the row holds the rest and its status. This module
+ * only queues (services import it); the workers that take the jobs start in
+ * backgroundWorkers.ts, which imports the services — so no import cycle.
  */
 export const MAIL_QUEUE = 'mail-send';
 export const EXPORT_QUEUE = 'statement-export';
@@ -19,7 +18,7 @@ export function mailRetrySettings() {
   return { retryLimit: envNumber(process.env, 'KEELSON_MAIL_RETRY_LIMIT', 5, 0), retryDelay: envNumber(process.env, 'KEELSON_MAIL_RETRY_DELAY_SECONDS', 30, 0), retryBackoff: true };
 }
 
-function queueOptions(name: string): PgBoss.Queue & { retryLimit: number; retryDelay: number; retryBackoff: boolean; expireInSeconds: number } {
+export function queueOptions(name: string): PgBoss.Queue & { retryLimit: number; retryDelay: number; retryBackoff: boolean; expireInSeconds: number } {
   if (name === MAIL_QUEUE) return { name, policy: 'standard' as const, ...mailRetrySettings(), expireInSeconds: 120 };
   return { name, policy: 'standard' as const, retryLimit: 2, retryDelay: 5, retryBackoff: false, expireInSeconds: 30 * 60 };
 }
@@ -47,35 +46,4 @@ export async function enqueue(pool: Pool, tx: DbOrTx, queue: string, data: { id:
   const boss = await backgroundProducer(pool);
   const o = queueOptions(queue);
   await boss.send(queue, data, { id: randomUUID(), retryLimit: o.retryLimit, retryDelay: o.retryDelay, retryBackoff: o.retryBackoff, expireInSeconds: o.expireInSeconds, db: transactionExecutor(tx) });
-}
-
-export type BackgroundWorkers = { stop: () => Promise<void> };
-
-/** Starts the mail and statement-export workers on the given database. */
-export async function startBackgroundWorkers(opts: { db: Db; pool: Pool; transport: MailTransport; log?: (m: string) => void }): Promise<BackgroundWorkers> {
-  const log = opts.log ?? ((m: string) => console.log(`keelson: ${m}`));
-  const boss = createBoss(opts.pool, 'worker');
-  await boss.start();
-  await ensureQueue(boss, queueOptions(MAIL_QUEUE));
-  await ensureQueue(boss, queueOptions(EXPORT_QUEUE));
-  const pollingIntervalSeconds = queueSettings().pollingIntervalSeconds;
-  await boss.work<{ id: string }>(MAIL_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds }, async ([job]) => {
-    const lastAttempt = job.retryCount >= job.retryLimit;
-    const outcome = await processMail(opts.db, opts.transport, job.data.id, { lastAttempt });
-    if (outcome !== 'sent') log(`mail ${job.data.id}: ${outcome}`);
-  });
-  await boss.work<{ id: string }>(EXPORT_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds }, async ([job]) => {
-    const lastAttempt = job.retryCount >= job.retryLimit;
-    const outcome = await processStatementExport(opts.db, job.data.id, { lastAttempt });
-    log(`statement export ${job.data.id}: ${outcome}`);
-  });
-  let stopped = false;
-  return {
-    stop: async () => {
-      if (stopped) return;
-      stopped = true;
-      await boss.stop({ graceful: true, timeout: 5000, close: false });
-      opts.transport.close();
-    },
-  };
 }

@@ -3,8 +3,11 @@ import { and, eq, inArray, ne, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { projectionRuns } from '../../db/schema';
 import { ENGINE_VERSION, ScenarioValidationError, type ScenarioInput } from '../../simulation';
+import type { Logger } from 'pino';
 import { runScenarioThreaded } from '../compute/threads';
+import { log as rootLog } from '../log';
 import { audit } from '../services/audit';
+import { queueSettings } from './queue';
 import type { ScenarioSnapshot } from '../services/scenario';
 import { compareResults, storeVariant, type StoredResult } from './result';
 
@@ -15,7 +18,8 @@ export type HandlerOptions = {
   progressIntervalMs?: number;
 };
 
-export type RunOutcome = 'done' | 'failed' | 'skipped';
+/** `deferred`: the scheme already has its share of runs running; the job waits its turn. */
+export type RunOutcome = 'done' | 'failed' | 'skipped' | 'deferred';
 
 /** An error that running again would not cure (bad stored input): the run fails at once. */
 function isPermanent(err: unknown): boolean {
@@ -39,17 +43,54 @@ function defaultThreads(): number {
  * other error is thrown for the queue to retry, and `lastAttempt` marks the run failed instead.
  */
 export async function processRun(db: Db, runId: string, opts: HandlerOptions & { lastAttempt?: boolean } = {}): Promise<RunOutcome> {
+  const settings = queueSettings();
+  // Claim the run — unless its scheme already has schemeMaxRunning runs with a live heartbeat.
   const [run] = await db
     .update(projectionRuns)
-    .set({ status: 'running', progress: 0, startedAt: new Date(), error: null })
-    .where(and(eq(projectionRuns.id, runId), inArray(projectionRuns.status, ['queued', 'running'])))
+    .set({ status: 'running', progress: 0, startedAt: new Date(), heartbeatAt: new Date(), error: null })
+    .where(
+      and(
+        eq(projectionRuns.id, runId),
+        inArray(projectionRuns.status, ['queued', 'running']),
+        sql`(select count(*) from projection_runs o
+              where o.scheme_id = ${projectionRuns.schemeId} and o.id <> ${projectionRuns.id} and o.status = 'running'
+                and o.heartbeat_at > now() - make_interval(secs => ${settings.stallSeconds})) < ${settings.schemeMaxRunning}`,
+      ),
+    )
     .returning();
-  if (!run) return 'skipped';
+  if (!run) {
+    const [still] = await db.select({ status: projectionRuns.status }).from(projectionRuns).where(eq(projectionRuns.id, runId));
+    return still && (still.status === 'queued' || still.status === 'running') ? 'deferred' : 'skipped';
+  }
+  const log = rootLog.child({ runId, schemeId: run.schemeId });
+  log.info({ paths: run.paths }, 'run started');
+  // The heartbeat says this worker is alive; the main thread is free while the threads compute.
+  const beat = setInterval(() => {
+    db.update(projectionRuns)
+      .set({ heartbeatAt: new Date() })
+      .where(and(eq(projectionRuns.id, runId), eq(projectionRuns.status, 'running')))
+      .catch((err) => log.warn({ err: { message: err.message } }, 'heartbeat not written'));
+  }, settings.heartbeatSeconds * 1000);
+  beat.unref();
+  try {
+    return await computeAndStore(db, run, variantsOf(run), opts, log);
+  } finally {
+    clearInterval(beat);
+  }
+}
+
+type RunRow = typeof projectionRuns.$inferSelect;
+
+function variantsOf(run: RunRow): ScenarioInput[] {
 
   const snapshot = run.input as ScenarioSnapshot;
   const variants: ScenarioInput[] = [snapshot.scenario];
   if (snapshot.stress) variants.push({ ...snapshot.scenario, stress: snapshot.stress });
+  return variants;
+}
 
+async function computeAndStore(db: Db, run: RunRow, variants: ScenarioInput[], opts: HandlerOptions & { lastAttempt?: boolean }, log: Logger): Promise<RunOutcome> {
+  const runId = run.id;
   let lastWrite = 0;
   let lastValue = 0;
   let writing: Promise<unknown> = Promise.resolve();
@@ -92,6 +133,7 @@ export async function processRun(db: Db, runId: string, opts: HandlerOptions & {
     await writing;
     if (!isPermanent(err) && !opts.lastAttempt) throw err;
     const reason = err instanceof Error ? err.message : String(err);
+    log.warn({ reason }, 'run failed');
     await markFailed(db, run.schemeId, runId, reason);
     return 'failed';
   }

@@ -1,8 +1,11 @@
 import type { Pool } from 'pg';
 import type PgBoss from 'pg-boss';
+import { sql } from 'drizzle-orm';
 import { createDb, type Db } from '../../db/client';
+import { log as rootLog } from '../log';
 import { processRun, requeueAbandoned, type HandlerOptions } from './handler';
 import { BOSS_SCHEMA, createBoss, ensureRunQueue, queueSettings, RUN_QUEUE, type RunJob } from './queue';
+import { recoverStalledRuns } from './stall';
 
 export { enqueueRun, RUN_QUEUE } from './queue';
 export { processRun } from './handler';
@@ -25,10 +28,10 @@ type WorkerOptions = HandlerOptions & {
  * short goes back to the queue and is retried.
  */
 export async function startRunWorker(opts: WorkerOptions = {}): Promise<RunWorker> {
-  const own = opts.pool ? null : createDb(opts.databaseUrl, 4);
+  const own = opts.pool ? null : createDb(opts.databaseUrl, 4, (err) => rootLog.warn({ err: { message: err.message } }, 'database connection lost (worker pool)'));
   const db = opts.db ?? own!.db;
   const pool = opts.pool ?? own!.pool;
-  const log = opts.log ?? ((m: string) => console.log(`keelson: ${m}`));
+  const log = opts.log ?? ((m: string) => rootLog.info(m));
   const settings = queueSettings();
   const boss = createBoss(pool, 'worker', settings);
   await boss.start();
@@ -37,6 +40,21 @@ export async function startRunWorker(opts: WorkerOptions = {}): Promise<RunWorke
   const sync = () => requeueAbandoned(db, BOSS_SCHEMA, RUN_QUEUE).catch(() => 0);
   boss.on('maintenance', () => void sync());
   await sync();
+  // Lost workers are found by their missing heartbeat, a few times a minute.
+  let checking = false;
+  const checkStalled = async () => {
+    if (checking) return;
+    checking = true;
+    try {
+      await recoverStalledRuns(db, boss, settings.stallSeconds);
+    } catch {
+      // The database may be away; the next check tries again.
+    } finally {
+      checking = false;
+    }
+  };
+  const monitor = setInterval(() => void checkStalled(), Math.max(1000, (settings.stallSeconds * 1000) / 4));
+  monitor.unref();
 
   await boss.work<RunJob>(
     RUN_QUEUE,
@@ -45,6 +63,12 @@ export async function startRunWorker(opts: WorkerOptions = {}): Promise<RunWorke
       const lastAttempt = job.retryCount >= job.retryLimit;
       if (job.retryCount > 0) log(`run ${job.data.runId}: attempt ${job.retryCount + 1} of ${job.retryLimit + 1}`);
       const outcome = await processRun(db, job.data.runId, { threads: opts.threads, progressIntervalMs: opts.progressIntervalMs, lastAttempt });
+      if (outcome === 'deferred') {
+        // The scheme has its share running: put the job back for a few seconds, keeping its
+        // attempts (pg-boss then finds it no longer active and leaves it be).
+        await db.execute(sql`update ${sql.identifier(BOSS_SCHEMA)}.job set state = 'created', started_on = null, start_after = now() + interval '3 seconds'
+                             where name = ${RUN_QUEUE} and id = ${job.id} and state = 'active'`);
+      }
       log(`run ${job.data.runId}: ${outcome}`);
     },
   );
@@ -55,6 +79,7 @@ export async function startRunWorker(opts: WorkerOptions = {}): Promise<RunWorke
     stop: async () => {
       if (stopped) return;
       stopped = true;
+      clearInterval(monitor);
       await boss.stop({ graceful: true, timeout: 5000, close: false });
       if (own) await own.pool.end();
     },

@@ -2,6 +2,8 @@ import PgBoss from 'pg-boss';
 import { sql } from 'drizzle-orm';
 import type { Pool } from 'pg';
 import type { DbOrTx } from '../../db/client';
+import { HttpError } from '../errors';
+import { log } from '../log';
 
 /**
  * The projection queue: pg-boss 10 in its own schema (`pgboss`) of Keelson's database.
@@ -22,6 +24,14 @@ export type QueueSettings = {
   maintenanceIntervalSeconds: number;
   /** How often an idle worker polls for new jobs. */
   pollingIntervalSeconds: number;
+  /** How often the worker running a run writes its heartbeat. */
+  heartbeatSeconds: number;
+  /** A running run whose heartbeat is older than this is stalled: its worker was lost. */
+  stallSeconds: number;
+  /** Runs of one scheme waiting or running at once; a request beyond it is refused (429). */
+  schemeMaxWaiting: number;
+  /** Runs of one scheme running at once across all workers; the next waits its turn. */
+  schemeMaxRunning: number;
 };
 
 /** A numeric setting from the environment: the fallback when unset, a clear error when not a number ≥ min. */
@@ -33,7 +43,11 @@ export function envNumber(env: Record<string, string | undefined>, name: string,
   return v;
 }
 
-/** Settings from the environment, with production defaults (a run may take minutes; expiry allows half an hour). */
+/**
+ * Settings from the environment, with production defaults. A run may take minutes: the job's
+ * expiry (half an hour) is only the last resort — a lost worker is noticed by its missing
+ * heartbeat within stallSeconds (see stall.ts).
+ */
 export function queueSettings(env: Record<string, string | undefined> = process.env): QueueSettings {
   return {
     expireInSeconds: envNumber(env, 'KEELSON_RUN_EXPIRE_SECONDS', 30 * 60, 1),
@@ -41,6 +55,10 @@ export function queueSettings(env: Record<string, string | undefined> = process.
     retryDelaySeconds: envNumber(env, 'KEELSON_RUN_RETRY_DELAY_SECONDS', 2, 0),
     maintenanceIntervalSeconds: envNumber(env, 'KEELSON_QUEUE_MAINTENANCE_SECONDS', 30, 1),
     pollingIntervalSeconds: envNumber(env, 'KEELSON_QUEUE_POLL_SECONDS', 1, 0.5),
+    heartbeatSeconds: envNumber(env, 'KEELSON_RUN_HEARTBEAT_SECONDS', 5, 0.2),
+    stallSeconds: envNumber(env, 'KEELSON_RUN_STALL_SECONDS', 20, 1),
+    schemeMaxWaiting: envNumber(env, 'KEELSON_SCHEME_MAX_RUNS', 6, 1),
+    schemeMaxRunning: envNumber(env, 'KEELSON_SCHEME_MAX_RUNNING', 1, 1),
   };
 }
 
@@ -75,7 +93,8 @@ export function createBoss(pool: Pool, role: 'producer' | 'worker', settings = q
     migrate: true,
     maintenanceIntervalSeconds: settings.maintenanceIntervalSeconds,
   });
-  boss.on('error', (err) => console.error(`keelson: run queue (${role}) error:`, err.message));
+  // Errors while the database is away are reported here, and the queue carries on polling.
+  boss.on('error', (err) => log.warn({ err: { message: err.message, code: (err as { code?: string }).code } }, `queue (${role}) error`));
   return boss;
 }
 
@@ -124,12 +143,30 @@ export function producerFor(pool: Pool): Promise<PgBoss> {
 
 export type RunJob = { runId: string };
 
-/** Queues a run inside the caller's transaction. The job id is the run id, so a run is queued at most once. */
+/**
+ * Queues a run inside the caller's transaction. The job id is the run id, so a run is queued
+ * at most once. Fair between schemes: a run's priority is minus the number of runs its scheme
+ * already has waiting or running, so one scheme's fifth run queues behind another scheme's
+ * first. A scheme with schemeMaxWaiting runs in flight is refused (429) until one finishes.
+ */
 export async function enqueueRun(pool: Pool, tx: DbOrTx, runId: string): Promise<void> {
   const boss = await producerFor(pool);
   const settings = queueSettings();
+  // One request per scheme at a time past this point, so two cannot both take the last place.
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtext('keelson-runs:' || scheme_id::text)) from projection_runs where id = ${runId}`);
+  const res = await tx.execute(sql`
+    select r.scheme_id,
+           (select count(*)::int from projection_runs o
+             where o.scheme_id = r.scheme_id and o.id <> r.id and o.status in ('queued', 'running')) as in_flight
+    from projection_runs r where r.id = ${runId}`);
+  const row = res.rows[0] as { scheme_id: string; in_flight: number } | undefined;
+  const inFlight = Number(row?.in_flight ?? 0);
+  if (inFlight >= settings.schemeMaxWaiting) {
+    throw new HttpError(429, `This scheme already has ${inFlight} projection runs waiting or running. Wait for one to finish, then start this one.`, undefined, 'too_many_runs');
+  }
   await boss.send(RUN_QUEUE, { runId } satisfies RunJob, {
     id: runId,
+    priority: -inFlight,
     retryLimit: settings.retryLimit,
     retryDelay: settings.retryDelaySeconds,
     expireInSeconds: settings.expireInSeconds,

@@ -2,6 +2,7 @@ import PgBoss from 'pg-boss';
 import type { Pool } from 'pg';
 import type { Db } from '../../db/client';
 import { sendReviewReminders } from '../services/reminders';
+import { log as rootLog } from '../log';
 import { BOSS_SCHEMA, ensureQueue, poolExecutor, queueSettings } from './queue';
 
 /**
@@ -17,10 +18,10 @@ export const REMINDER_CRON = '0 7 * * *';
 export const todayUtc = (now = new Date()) => now.toISOString().slice(0, 10);
 
 export async function startReviewReminders(opts: { db: Db; pool: Pool; log?: (m: string) => void; catchUp?: boolean }): Promise<{ stop: () => Promise<void> }> {
-  const log = opts.log ?? ((m: string) => console.log(`keelson: ${m}`));
+  const log = opts.log ?? ((m: string) => rootLog.info(m));
   // A pg-boss instance of its own that keeps the schedule; the others run with schedule: false.
   const boss = new PgBoss({ db: poolExecutor(opts.pool), schema: BOSS_SCHEMA, supervise: false, schedule: true, migrate: true });
-  boss.on('error', (err) => console.error('keelson: review reminders error:', err.message));
+  boss.on('error', (err) => rootLog.error({ err }, 'review reminders error'));
   await boss.start();
   await ensureQueue(boss, { name: REMINDER_QUEUE, policy: 'standard', retryLimit: 3, retryDelay: 300, retryBackoff: true, expireInSeconds: 15 * 60 });
   await boss.schedule(REMINDER_QUEUE, REMINDER_CRON, {}, { tz: 'UTC' });

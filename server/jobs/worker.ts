@@ -1,26 +1,37 @@
 /**
- * Stand-alone projection worker: `npm run worker` (DATABASE_URL selects the database).
- * Several may run at once, on one machine or many; each takes one run at a time.
+ * The worker process: `npm run worker` (`npm start` starts it beside the server). It takes
+ * projection runs (on worker threads), mail and statement exports from the queue in
+ * PostgreSQL; several may run at once, on one machine or many. It runs at a lower CPU
+ * priority (KEELSON_WORKER_NICE, default 10) so that a big run leaves the API responsive.
  */
-import { databaseUrl } from '../../db/client';
-import { startRunWorker } from './index';
+import { setPriority } from 'node:os';
+import { createDb } from '../../db/client';
+import { log } from '../log';
+import { configOrExit, keepRunningOnRejections, onStopSignal, startWhenReachable } from '../processes';
+import { startWorkers, type Workers } from '../workers';
 
-async function main() {
-  const worker = await startRunWorker({ databaseUrl: databaseUrl() });
-  console.log('keelson: projection worker waiting for runs');
+function main() {
+  keepRunningOnRejections();
+  const config = configOrExit('the worker');
+  const nice = Number(process.env.KEELSON_WORKER_NICE ?? 10);
+  try {
+    // Threads started from here on inherit it (Linux keeps the nice value per thread).
+    if (Number.isInteger(nice) && nice > 0) setPriority(Math.min(19, nice));
+  } catch (err) {
+    log.warn({ err }, 'could not lower the worker priority');
+  }
+  const { db, pool } = createDb(config.DATABASE_URL, 6, (err) => log.warn({ reason: err.message }, 'database connection lost; the queue resumes when it is back'));
   let stopping = false;
-  const stop = (signal: string) => {
-    if (stopping) return;
+  let workers: Workers | null = null;
+  void startWhenReachable('the worker', () => startWorkers({ db, pool, config }), () => stopping).then((w) => {
+    workers = w;
+  });
+  onStopSignal('worker', async () => {
     stopping = true;
-    console.log(`keelson: ${signal} received, stopping the worker...`);
-    worker.stop().finally(() => process.exit(0));
-    setTimeout(() => process.exit(0), 8000).unref();
-  };
-  process.on('SIGINT', () => stop('SIGINT'));
-  process.on('SIGTERM', () => stop('SIGTERM'));
+    if (workers) await workers.stop();
+    await pool.end().catch(() => undefined);
+    log.info('worker stopped');
+  });
 }
 
-main().catch((err) => {
-  console.error('keelson: projection worker failed to start:', err instanceof Error ? err.message : err);
-  process.exit(1);
-});
+main();

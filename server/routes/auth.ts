@@ -1,67 +1,73 @@
 import { Router, type Request } from 'express';
-import { contextOf } from '../services/context';
 import { rateLimit } from 'express-rate-limit';
-import { sql, eq } from 'drizzle-orm';
 import { z } from 'zod';
+import type { Authenticator } from 'passport';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
-import { HttpError } from '../errors';
-import { users } from '../../db/schema';
 import { SESSION_COOKIE } from '../auth/session';
-import { hashPassword, verifyPassword } from '../auth/password';
+import { MAX_PASSWORD_LENGTH } from '../../constants/passwords';
 import { audit } from '../services/audit';
-import { SIGN_IN_FAILED, createToken, emailKey, findLiveToken, redeemToken, schemesOf, getUser } from '../services/accounts';
-import type { Authenticator } from 'passport';
+import { contextOf } from '../services/context';
+import { acceptInvitation, afterAnswer, changePassword, confirmSignIn, emailKey, linkInfo, me, redeemLink, requestPasswordReset } from '../services/accounts';
+import { CONFIRMATION_NEEDED, SIGN_IN_FAILED, type SignInResult } from '../services/signIn';
+import { singleLine } from '../fields';
 
-export const PasswordSchema = z.string().min(10, 'must be at least 10 characters').max(200, 'must be at most 200 characters');
 const SignInBody = z.object({ email: z.string().trim().min(1, 'is required').max(254, 'is too long'), password: z.string().min(1, 'is required').max(1024, 'is too long') });
-const ChangePasswordBody = z.object({ currentPassword: z.string().min(1, 'is required').max(1024), newPassword: PasswordSchema });
-const RedeemBody = z.object({ password: PasswordSchema, displayName: z.string().trim().min(1).max(120).optional() });
+const NewPassword = z.string('must be text').max(MAX_PASSWORD_LENGTH, `must be at most ${MAX_PASSWORD_LENGTH} characters`);
+const ChangePasswordBody = z.object({ currentPassword: z.string().min(1, 'is required').max(1024), newPassword: NewPassword });
+const RedeemBody = z.object({ password: NewPassword, displayName: singleLine(120).optional() });
 const ForgotBody = z.object({ email: z.string().trim().email('is not an e-mail address').max(254) });
+const Token = z.string().max(200, 'is not a link code');
 
-export function linkUrl(ctx: AppContext, req: Request, token: string): string {
-  const base = ctx.config.PUBLIC_URL ?? `${req.protocol}://${req.get('host')}`;
-  return `${base.replace(/\/$/, '')}/link?token=${encodeURIComponent(token)}`;
-}
+const limiter = (limit: number, message: string) =>
+  rateLimit({ windowMs: 15 * 60_000, limit, standardHeaders: 'draft-8', legacyHeaders: false, handler: (_req, res) => res.status(429).json({ error: 'rate_limited', message }) });
 
-async function meOf(ctx: AppContext, userId: string) {
-  const user = await getUser(ctx.db, userId);
-  return { user, schemes: await schemesOf(ctx.db, userId) };
+/** Signs the request's session in as `user`: a fresh session id (no fixation) stamped with the sign-in time. */
+function startSession(req: Request, user: Express.User): Promise<void> {
+  return new Promise((resolve, reject) =>
+    req.session.regenerate((e1) => {
+      if (e1) return reject(e1);
+      req.login(user, (e2) => {
+        if (e2) return reject(e2);
+        req.session.signedInAt = Date.now();
+        resolve();
+      });
+    }),
+  );
 }
 
 export function authRouter(ctx: AppContext): Router {
   const r = Router();
   const M = '/auth';
-  const signInLimiter = rateLimit({
-    windowMs: 15 * 60_000,
-    limit: ctx.config.SIGN_IN_RATE_LIMIT,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, res) => res.status(429).json({ error: 'rate_limited', message: 'Too many sign-in attempts from here. Wait a few minutes and try again.' }),
-  });
+  const signInLimiter = limiter(ctx.config.SIGN_IN_RATE_LIMIT, 'Too many sign-in attempts from here. Wait a few minutes and try again.');
+  const forgotLimiter = limiter(ctx.config.FORGOT_PASSWORD_RATE_LIMIT, 'Too many reset requests from here. Wait a few minutes and try again.');
 
   defineRoute(r, M, { method: 'post', path: '/sign-in', access: 'public' }, signInLimiter, async (req, res, next) => {
     const body = SignInBody.parse(req.body);
     const pp = req.app.locals.passport as Authenticator;
-    pp.authenticate('local', (err: unknown, user: Express.User | false) => {
+    pp.authenticate('local', (err: unknown, user: Express.User | false, info?: SignInResult) => {
       if (err) return next(err);
-      if (!user) {
-        audit(ctx.db, contextOf(req), { action: 'sign-in.failed', userId: null, actorEmail: emailKey(body.email) })
-          .then(() => res.status(401).json({ error: 'sign_in_failed', message: SIGN_IN_FAILED }))
+      if (user) {
+        startSession(req, user)
+          .then(() => audit(ctx.db, contextOf(req), { action: 'sign-in', userId: user.id, actorEmail: user.email }))
+          .then(() => me(ctx.db, user.id))
+          .then((m) => res.json(m))
           .catch(next);
         return;
       }
-      // A fresh session id at sign-in (no fixation).
-      req.session.regenerate((e1) => {
-        if (e1) return next(e1);
-        req.login(user, (e2) => {
-          if (e2) return next(e2);
-          audit(ctx.db, contextOf(req), { action: 'sign-in', userId: user.id, actorEmail: user.email })
-            .then(() => meOf(ctx, user.id))
-            .then((me) => res.json(me))
-            .catch(next);
-        });
-      });
+      if (info?.kind === 'wait') {
+        res.setHeader('Retry-After', String(info.retryAfterSeconds));
+        res.status(429).json({ error: 'slow_down', message: `Too many failed sign-ins from your network. Wait ${info.retryAfterSeconds} s and try again.`, retryAfterSeconds: info.retryAfterSeconds });
+        return;
+      }
+      const confirm = info?.kind === 'confirm';
+      audit(ctx.db, contextOf(req), { action: confirm ? 'sign-in.needs-confirmation' : 'sign-in.failed', userId: null, actorEmail: emailKey(body.email) })
+        .then(() =>
+          confirm
+            ? res.status(202).json({ error: 'confirmation_needed', message: CONFIRMATION_NEEDED })
+            : res.status(401).json({ error: 'sign_in_failed', message: SIGN_IN_FAILED }),
+        )
+        .catch(next);
     })(req, res, next);
   });
 
@@ -78,59 +84,41 @@ export function authRouter(ctx: AppContext): Router {
   });
 
   defineRoute(r, M, { method: 'get', path: '/me', access: 'signed-in' }, async (req, res) => {
-    res.json(await meOf(ctx, req.user!.id));
+    res.json(await me(ctx.db, req.user!.id));
   });
 
   defineRoute(r, M, { method: 'post', path: '/password', access: 'signed-in' }, async (req, res) => {
     const body = ChangePasswordBody.parse(req.body);
-    const [u] = await ctx.db.select().from(users).where(eq(users.id, req.user!.id));
-    if (!u?.passwordHash || !(await verifyPassword(body.currentPassword, u.passwordHash))) {
-      throw new HttpError(400, 'The current password is not right.', [{ path: 'currentPassword', message: 'is not right' }], 'invalid_input');
-    }
-    const passwordHash = await hashPassword(body.newPassword);
-    await ctx.db.transaction(async (tx) => {
-      await tx.update(users).set({ passwordHash }).where(eq(users.id, u.id));
-      await audit(tx, contextOf(req), { action: 'password.changed', entity: 'user', entityId: u.id });
-    });
-    res.json({ ok: true });
+    res.json(await changePassword(ctx, contextOf(req), body, req.sessionID));
   });
 
-  defineRoute(r, M, { method: 'post', path: '/forgot-password', access: 'public' }, async (req, res) => {
+  defineRoute(r, M, { method: 'post', path: '/forgot-password', access: 'public' }, forgotLimiter, async (req, res) => {
     const body = ForgotBody.parse(req.body);
-    const [u] = await ctx.db.select().from(users).where(sql`lower(${users.email}) = ${emailKey(body.email)}`);
-    if (u) {
-      const { token } = await createToken(ctx.db, { kind: 'password_reset', email: u.email });
-      await audit(ctx.db, contextOf(req), { action: 'password-reset.requested', userId: u.id, actorEmail: u.email });
-      const send = req.app.locals.sendMail as ((m: { to: string; subject: string; text: string }) => Promise<void>) | undefined;
-      const link = linkUrl(ctx, req, token);
-      if (send) await send({ to: u.email, subject: 'Reset your Keelson password', text: `Use this link within 2 hours to set a new password:\n${link}` });
-      else if (ctx.config.NODE_ENV === 'development') console.log(`keelson: password reset link for ${u.email}: ${link}`);
-    }
-    // Same answer whether or not the address exists.
-    res.json({ ok: true, message: 'If that address has an account, a reset link is on its way. Your scheme administrator can also issue one.' });
+    // Answer first and identically; the look-up and the mail happen after, so neither the
+    // answer nor its timing tells whether the address has an account.
+    res.json({ ok: true, message: 'If that address has an account, a reset link is on its way. Your scheme administrator can also send you one.' });
+    const sc = contextOf(req);
+    afterAnswer(() => requestPasswordReset(ctx, sc, body.email));
   });
 
   defineRoute(r, M, { method: 'get', path: '/links/:token', access: 'public' }, async (req, res) => {
-    const row = await findLiveToken(ctx.db, String(req.params.token));
-    if (!row) throw new HttpError(410, 'This link has expired or has already been used. Ask for a new one.', undefined, 'link_expired');
-    const existing = await ctx.db.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = ${row.t.email}`);
-    res.json({ kind: row.t.kind, email: row.t.email, schemeName: row.schemeName, role: row.t.role, newAccount: existing.length === 0, expiresAt: row.t.expiresAt });
+    res.json(await linkInfo(ctx.db, Token.parse(req.params.token)));
   });
 
   defineRoute(r, M, { method: 'post', path: '/links/:token', access: 'public' }, async (req, res) => {
     const body = RedeemBody.parse(req.body);
-    const out = await redeemToken(ctx.db, String(req.params.token), body.password, body.displayName, async (tx, user, t) => {
-      await audit(tx, contextOf(req), {
-        action: t.kind === 'invitation' ? 'invitation.accepted' : 'password.reset',
-        schemeId: t.schemeId,
-        entity: 'user',
-        entityId: user.id,
-        userId: user.id,
-        actorEmail: user.email,
-        after: t.kind === 'invitation' ? { role: t.role } : undefined,
-      });
-    });
-    res.json({ ok: true, kind: out.kind, email: out.user.email });
+    res.json(await redeemLink(ctx, contextOf(req), Token.parse(req.params.token), body));
+  });
+
+  defineRoute(r, M, { method: 'post', path: '/links/:token/accept', access: 'signed-in' }, async (req, res) => {
+    res.json(await acceptInvitation(ctx, contextOf(req), Token.parse(req.params.token)));
+  });
+
+  defineRoute(r, M, { method: 'post', path: '/links/:token/confirm-sign-in', access: 'public' }, async (req, res) => {
+    const user = await confirmSignIn(ctx, contextOf(req), Token.parse(req.params.token));
+    await startSession(req, user);
+    await audit(ctx.db, contextOf(req), { action: 'sign-in', userId: user.id, actorEmail: user.email });
+    res.json(await me(ctx.db, user.id));
   });
 
   return r;

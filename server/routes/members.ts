@@ -7,7 +7,8 @@ import { illustrativeMembers } from '../../db/schema';
 import { MemberSchema } from '../../simulation';
 import { csvUpload } from '../uploads';
 import { createIllustrative, deleteIllustrative, listIllustrative, updateIllustrative } from '../services/members';
-import { membershipSummary, parseMembershipCsv, replaceMembership } from '../services/membership';
+import { membershipSummary, replaceMembership } from '../services/membership';
+import { parseMembershipCsvOffThread } from '../threads';
 
 const M_ = MemberSchema.shape;
 
@@ -18,10 +19,11 @@ export const IllustrativeBody = createInsertSchema(illustrativeMembers)
     label: z.string().trim().min(1, 'must not be empty').max(120, 'must be at most 120 characters'),
     age: M_.age.min(16, 'must be at least 16'),
     retirementAge: M_.retirementAge.max(80, 'must be at most 80'),
-    salary: M_.salary,
+    // Money is bounded like the membership upload's (a salary of 1e300 would overflow the projection).
+    salary: M_.salary.max(10_000_000, 'is implausibly large (over 10,000,000)'),
     salaryGrowth: M_.salaryGrowth.nullable().default(null),
     contributionRate: M_.contributionRate,
-    pot: M_.pot,
+    pot: M_.pot.max(100_000_000, 'is implausibly large (over 100,000,000)'),
   })
   .strict()
   .superRefine((m, ctx) => {
@@ -62,7 +64,8 @@ export function membersRouter(ctx: AppContext): Router {
 
   // Replace-all: the uploaded file becomes the whole membership, or nothing changes.
   defineRoute(r, S, { method: 'post', path: '', access: 'membership:upload' }, csvUpload('file'), async (req, res) => {
-    const rows = await parseMembershipCsv(req.file!.buffer);
+    // Parsed on a worker thread: a large file takes seconds, which the API's event loop must not wait for.
+    const rows = await parseMembershipCsvOffThread(req.file!.buffer);
     res.status(201).json(await replaceMembership(ctx.db, req, rows, { name: req.file!.originalname, buffer: req.file!.buffer }));
   });
 

@@ -8,7 +8,13 @@ const Uuid = z.string().uuid('is not a valid id');
 
 export const ReportBody = z.strictObject({
   runId: Uuid,
-  title: z.string('must be text').trim().max(200, 'must be at most 200 characters').optional(),
+  title: z
+    .string('must be text')
+    .trim()
+    .max(200, 'must be at most 200 characters')
+    // A title becomes a mail subject and a file name: one line only.
+    .refine((t) => !/[\u0000-\u001f\u007f]/.test(t), 'must be one line (no line breaks or control characters)')
+    .optional(),
   riskAversion: z.number('must be a number').min(-5, 'must be at least -5').max(50, 'must be at most 50').optional(),
 });
 

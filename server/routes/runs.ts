@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { runForRole } from '../services/runAccess';
 import { getRun, listRuns, MAX_SEED, requestRun, rerun, runChoices } from '../services/runs';
 
 const Uuid = z.string().uuid('is not a valid id');
@@ -63,7 +64,8 @@ export function runsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'get', path: '/runs/:runId', access: 'runs:read' }, async (req, res) => {
     const runId = Uuid.parse(req.params.runId);
-    res.json(await getRun(ctx, req.scheme!.id, runId));
+    // Fund assumptions only for roles that may read them.
+    res.json(runForRole(await getRun(ctx, req.scheme!.id, runId), req.scheme!.role));
   });
 
   defineRoute(r, M, { method: 'post', path: '/runs/:runId/rerun', access: 'runs:create' }, async (req, res) => {

@@ -29,7 +29,9 @@ export const MembershipRow = createInsertSchema(schemeMembers)
       .string()
       .min(1, 'is empty')
       .max(64, 'must be at most 64 characters')
-      .regex(/^[A-Za-z0-9._\-/]+$/, 'may hold only letters, digits and . _ - / (a pseudonymous reference, not a name)'),
+      .regex(/^[A-Za-z0-9._\-/]+$/, 'may hold only letters, digits and . _ - / (a pseudonymous reference, not a name)')
+      // A cell starting with - = + @ is read as a formula by spreadsheets (CSV injection).
+      .regex(/^[A-Za-z0-9]/, 'must start with a letter or digit (a leading - = + @ would be read as a formula by spreadsheets)'),
     age: z.number().int('must be a whole number of years').min(16, 'must be at least 16').max(99, 'must be at most 99'),
     salary: z.number().min(0, 'must not be negative').max(10_000_000, 'is implausibly large (over 10,000,000)'),
     pot: z.number().min(0, 'must not be negative').max(100_000_000, 'is implausibly large (over 100,000,000)'),

@@ -5,7 +5,7 @@ import { and, desc, eq, getTableColumns } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { assumptionSets, funds, illustrativeMembers, projectionRuns, runOptionVersions } from '../../db/schema';
 import { conflict, notFound } from '../errors';
-import { enqueueRun, producerFor } from '../jobs/queue';
+import { enqueueRun, producerFor, queueSettings } from '../jobs/queue';
 import { audit } from './audit';
 import { settingsOf } from './governance';
 import { listOptions } from './options';
@@ -119,6 +119,9 @@ export function summary(r: Omit<RunRow, 'result'>) {
     createdAt: r.createdAt,
     startedAt: r.startedAt,
     finishedAt: r.finishedAt,
+    heartbeatAt: r.heartbeatAt,
+    /** Running, but its worker has gone quiet: it is handed back to the queue shortly. */
+    stalled: r.status === 'running' && (!r.heartbeatAt || Date.now() - r.heartbeatAt.getTime() > queueSettings().stallSeconds * 1000),
   };
 }
 

@@ -4,7 +4,8 @@ import type { Pool } from 'pg';
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { assumptionSets, projectionRuns, schemeMembers, schemes, statementExports } from '../../db/schema';
-import { runScenario, type ScenarioInput } from '../../simulation';
+import type { ScenarioInput } from '../../simulation';
+import { ComputePool, runScenarioThreaded } from '../compute/threads';
 import { badRequest, conflict, HttpError, notFound } from '../errors';
 import type { StoredResult } from '../jobs/result';
 import type { ScenarioSnapshot } from './scenario';
@@ -66,16 +67,18 @@ const key = (p: number) => `p${p}`;
  * WHAT_IF.laterYears later — on the same market paths, so the differences show the change
  * alone. Returns per member: p10/p50/p90 real pots and incomes, and the two differences in the median.
  */
-export function projectMembers(snapshot: ScenarioSnapshot, optionId: string, members: EngineMember[], paths: number) {
+export async function projectMembers(snapshot: ScenarioSnapshot, optionId: string, members: EngineMember[], paths: number, pool?: ComputePool) {
   const sc = snapshot.scenario;
   const option = sc.options.find((o) => o.id === optionId)!;
   const P = STATEMENT_PERCENTILES;
   const engineMembers: EngineMember[] = members.flatMap((m) => [
     m,
-    { ...m, id: `${m.id}~more`, contributionRate: m.contributionRate + WHAT_IF.extraContribution },
+    // Capped at the whole salary: a member already paying 99% can pay at most 100%.
+    { ...m, id: `${m.id}~more`, contributionRate: Math.min(1, m.contributionRate + WHAT_IF.extraContribution) },
     { ...m, id: `${m.id}~later`, retirementAge: m.retirementAge + WHAT_IF.laterYears },
   ]);
-  const result = runScenario({ ...sc, paths, options: [option], members: engineMembers, percentiles: [P.weak, P.typical, P.strong] });
+  // On a worker thread, never on the calling event loop (a preview is asked for by a request).
+  const result = await runScenarioThreaded({ ...sc, paths, options: [option], members: engineMembers, percentiles: [P.weak, P.typical, P.strong] }, pool ? { pool } : { threads: 1 });
   return members.map((m, i) => {
     const [base, more, later] = [result.results[3 * i], result.results[3 * i + 1], result.results[3 * i + 2]];
     const pr = base.atRetirement.percentiles.real;
@@ -101,10 +104,10 @@ export function projectMembers(snapshot: ScenarioSnapshot, optionId: string, mem
 export async function illustrativeStatement(db: Db, schemeId: string, q: { runId: string; optionId: string; memberId: string }) {
   const run = await loadFinishedRun(db, schemeId, q.runId);
   const [scheme] = await db.select({ currency: schemes.currency }).from(schemes).where(eq(schemes.id, schemeId));
-  return statementFromRun(run, scheme.currency, q.optionId, q.memberId);
+  return await statementFromRun(run, scheme.currency, q.optionId, q.memberId);
 }
 
-export function statementFromRun(run: { input: ScenarioSnapshot; result: StoredResult; assumptionsDraft: boolean; paths: number }, currency: string, optionId: string, memberId: string) {
+export async function statementFromRun(run: { input: ScenarioSnapshot; result: StoredResult; assumptionsDraft: boolean; paths: number }, currency: string, optionId: string, memberId: string) {
   const option = optionOf(run, optionId);
   const member = run.input.members.find((m) => m.id === memberId);
   if (!member) throw badRequest('Some fields are not valid.', [{ path: 'memberId', message: 'is not an illustrative member of that run' }]);
@@ -117,7 +120,7 @@ export function statementFromRun(run: { input: ScenarioSnapshot; result: StoredR
   }
   const engineMember = run.input.scenario.members.find((m) => m.id === memberId)!;
   const paths = Math.min(run.paths, STATEMENT_MAX_PATHS);
-  const [w] = projectMembers(run.input, optionId, [engineMember], paths);
+  const [w] = await projectMembers(run.input, optionId, [engineMember], paths);
   const figures: StatementFigures = {
     memberLabel: member.label,
     age: member.age,
@@ -237,38 +240,45 @@ export async function processStatementExport(db: Db, exportId: string, opts: { l
     const option = optionOf(run, exp.optionId);
     const figures: StatementFigures[] = [];
     if (exp.scope === 'illustrative') {
-      for (const m of run.input.members) figures.push(statementFromRun(run, scheme.currency, exp.optionId, m.id).figures);
+      for (const m of run.input.members) figures.push((await statementFromRun(run, scheme.currency, exp.optionId, m.id)).figures);
     } else {
       const [set] = run.assumptionSetId ? await db.select({ salaryGrowth: assumptionSets.salaryGrowth }).from(assumptionSets).where(eq(assumptionSets.id, run.assumptionSetId)) : [];
       if (!set) throw new HttpError(409, 'The run’s assumption set no longer exists, so its salary growth is unknown.');
       const members = await db.select().from(schemeMembers).where(eq(schemeMembers.schemeId, exp.schemeId)).orderBy(asc(schemeMembers.reference));
       const paths = Math.min(run.paths, STATEMENT_MAX_PATHS);
-      for (let i = 0; i < members.length; i += CHUNK) {
-        const chunk = members.slice(i, i + CHUNK);
-        const projected = projectMembers(
-          run.input,
-          exp.optionId,
-          chunk.map((m) => ({ id: `member-${m.id}`, age: m.age, retirementAge: m.retirementAge, salary: m.salary, salaryGrowth: set.salaryGrowth, contributionRate: m.contributionRate, pot: m.pot })),
-          paths,
-        );
-        projected.forEach((p, k) => {
-          const m = chunk[k];
-          figures.push({
-            memberLabel: `Member ${m.reference}`,
-            age: m.age,
-            retirementAge: m.retirementAge,
-            currency: scheme.currency,
-            optionName: option.name,
-            pots: p.pots,
-            incomes: p.incomes,
-            annuityYears: run.input.scenario.annuity.years,
+      // One warm thread for the whole export rather than one started per chunk.
+      const pool = new ComputePool(1);
+      try {
+        for (let i = 0; i < members.length; i += CHUNK) {
+          const chunk = members.slice(i, i + CHUNK);
+          const projected = await projectMembers(
+            run.input,
+            exp.optionId,
+            chunk.map((m) => ({ id: `member-${m.id}`, age: m.age, retirementAge: m.retirementAge, salary: m.salary, salaryGrowth: set.salaryGrowth, contributionRate: m.contributionRate, pot: m.pot })),
             paths,
-            whatIf: p.whatIf,
-            draft: run.assumptionsDraft,
+            pool,
+          );
+          projected.forEach((p, k) => {
+            const m = chunk[k];
+            figures.push({
+              memberLabel: `Member ${m.reference}`,
+              age: m.age,
+              retirementAge: m.retirementAge,
+              currency: scheme.currency,
+              optionName: option.name,
+              pots: p.pots,
+              incomes: p.incomes,
+              annuityYears: run.input.scenario.annuity.years,
+              paths,
+              whatIf: p.whatIf,
+              draft: run.assumptionsDraft,
+            });
           });
-        });
-        await db.update(statementExports).set({ progress: Math.min(0.95, (i + chunk.length) / members.length) }).where(eq(statementExports.id, exportId));
-        await new Promise((r) => setImmediate(r));
+          await db.update(statementExports).set({ progress: Math.min(0.95, (i + chunk.length) / members.length) }).where(eq(statementExports.id, exportId));
+          await new Promise((r) => setImmediate(r));
+        }
+      } finally {
+        await pool.close();
       }
     }
     const body = exp.format === 'csv' ? Buffer.from(statementCsv(figures), 'utf8') : await renderStatements(figures);

@@ -67,7 +67,7 @@ describe('hostile input in every form field', () => {
     expect(withBodies().length).toBeGreaterThan(0);
   });
 
-  it('is rejected with a 400 naming the field, or stored and returned inert — never a 500', { timeout: 120_000 }, async () => {
+  it('is rejected with a 400 naming the field, or stored and returned inert — never a 500', { timeout: 180_000 }, async () => {
     const failures: string[] = [];
     let cases = 0;
     for (const route of withBodies()) {
@@ -120,8 +120,8 @@ describe('hostile input in every form field', () => {
 
   it('stores an HTML-looking name as plain data and returns it unchanged', async () => {
     const c = clients.administrator;
-    const inv = await c.post(`/schemes/${s.schemeId}/invitations`, { email: 'html-name@example.org', role: 'board' });
-    const token = new URL(inv.body.link).searchParams.get('token')!;
+    expect((await c.post(`/schemes/${s.schemeId}/invitations`, { email: 'html-name@example.org', role: 'board' })).status).toBe(201);
+    const token = await s.tokenFor('html-name@example.org', 'invitation');
     const name = '<b onmouseover="alert(1)">Robert\'); DROP TABLE users;--</b>';
     expect((await new Client(s.baseUrl).post(`/auth/links/${token}`, { password: 'a-good-long-password', displayName: name })).status).toBe(200);
     const me = await new Client(s.baseUrl).signIn('html-name@example.org', 'a-good-long-password');

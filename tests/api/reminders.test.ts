@@ -3,9 +3,10 @@ import { and, eq } from 'drizzle-orm';
 import PgBoss from 'pg-boss';
 import { outboxMessages, receivedMail, reviewReminders, schemeSettings } from '../../db/schema';
 import { createDb } from '../../db/client';
+import { linkSettings } from '../../server/auth/links';
 import { startFakeSmtp, type FakeSmtp } from '../../server/email/fakeSmtp';
 import { smtpTransport } from '../../server/email/transport';
-import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/background';
+import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/backgroundWorkers';
 import { BOSS_SCHEMA, poolExecutor } from '../../server/jobs/queue';
 import { REMINDER_QUEUE, startReviewReminders, todayUtc } from '../../server/jobs/reminders';
 import { reminderStage, sendReviewReminders } from '../../server/services/reminders';
@@ -25,7 +26,7 @@ beforeAll(async () => {
   workerDb = createDb(s.url, 6);
   fake = await startFakeSmtp({ db: workerDb.db });
   const transport = smtpTransport({ host: fake.host, port: fake.port, secure: false, from: 'Keelson <no-reply@keelson.test>' });
-  workers = await startBackgroundWorkers({ db: workerDb.db, pool: workerDb.pool, transport, log: () => {} });
+  workers = await startBackgroundWorkers({ db: workerDb.db, pool: workerDb.pool, transport, links: linkSettings(s.config), log: () => {} });
 });
 afterAll(async () => {
   await workers?.stop();

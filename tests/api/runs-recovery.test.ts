@@ -6,9 +6,10 @@ import { assumptionSets, auditEvents, illustrativeMembers, projectionRuns } from
 import { schemeOptions } from '../helpers/options';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 
-// A job whose worker vanished is expired after 8 s (longer than one attempt here takes) and
-// offered again; the restarted worker checks for expired jobs every second.
-process.env.KEELSON_RUN_EXPIRE_SECONDS = '8';
+// The job's own expiry stays at its half-hour default: what brings the run back is the lost
+// worker's missing heartbeat (written every second here, stalled after 5 s without one).
+process.env.KEELSON_RUN_HEARTBEAT_SECONDS = '1';
+process.env.KEELSON_RUN_STALL_SECONDS = '5';
 process.env.KEELSON_RUN_RETRY_DELAY_SECONDS = '0';
 
 let s: TestServer;
@@ -19,7 +20,7 @@ function startWorkerProcess(url: string): ChildProcess {
   // One process (no tsx launcher in between), so SIGKILL reaches the worker itself.
   const child = spawn(process.execPath, ['--require', 'tsx/cjs', path.join(root, 'server/jobs/worker.ts')], {
     cwd: root,
-    env: { ...process.env, DATABASE_URL: url, KEELSON_RUN_THREADS: '1', KEELSON_QUEUE_MAINTENANCE_SECONDS: '1', KEELSON_QUEUE_POLL_SECONDS: '0.5' },
+    env: { ...process.env, NODE_ENV: 'test', SESSION_SECRET: s.config.SESSION_SECRET, DATABASE_URL: url, KEELSON_RUN_THREADS: '1', KEELSON_QUEUE_POLL_SECONDS: '0.5' },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   children.push(child);
@@ -34,8 +35,8 @@ afterAll(async () => {
   await s?.close();
 });
 
-describe('a worker killed mid-run', () => {
-  it('is retried by the next worker and the run completes once, with one result set', { timeout: 120_000 }, async () => {
+describe('a worker killed mid-run (kill -9)', () => {
+  it('shows the run as stalled, retries it within a minute, and completes it once, with one result set', { timeout: 150_000 }, async () => {
     const trustee = new Client(s.baseUrl);
     await trustee.signIn('trustee@fernleigh.example');
     const [set] = await s.db.select().from(assumptionSets).where(eq(assumptionSets.schemeId, s.schemeId));
@@ -62,17 +63,32 @@ describe('a worker killed mid-run', () => {
     }
     first.kill('SIGKILL');
     await new Promise((r) => first.once('exit', r));
+    const killedAt = Date.now();
     expect((await read()).status).toBe('running');
-
+    // A second worker is up (as with several workers, or a supervisor restarting the dead one).
     startWorkerProcess(s.url);
+    // The screen's source says "stalled" once the heartbeat is old, before the run is handed back.
+    const seenStalled = await (async () => {
+      for (let t = Date.now(); Date.now() - t < 30_000; await new Promise((r) => setTimeout(r, 100))) {
+        const r = await trustee.get(`/schemes/${s.schemeId}/runs/${runId}`);
+        if (r.body.stalled) return true;
+        if (r.body.status !== 'running') return false;
+      }
+      return false;
+    })();
+    expect(seenStalled, 'the run was shown as stalled').toBe(true);
     const seen = new Set<string>();
-    const deadline = Date.now() + 90_000;
+    const deadline = killedAt + 120_000;
+    let retriedAfter = -1;
     do {
       await new Promise((r) => setTimeout(r, 100));
       row = await read();
       seen.add(row.status);
+      if (retriedAfter < 0 && row.startedAt && row.startedAt.getTime() > killedAt) retriedAfter = row.startedAt.getTime() - killedAt;
     } while (row.status !== 'done' && row.status !== 'failed' && Date.now() < deadline);
     expect(row.status, row.error ?? '').toBe('done');
+    expect(retriedAfter, 'ms from the kill to the retry starting').toBeGreaterThan(0);
+    expect(retriedAfter).toBeLessThan(60_000);
     expect(seen.has('failed'), `statuses seen after the kill: ${[...seen].join(', ')}`).toBe(false);
     const completed = await s.db.select().from(auditEvents).where(eq(auditEvents.entityId, runId));
     expect(completed.filter((e) => e.action === 'run.completed')).toHaveLength(1);

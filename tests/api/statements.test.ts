@@ -5,7 +5,8 @@ import { assumptionSets, illustrativeMembers, statementExports } from '../../db/
 import { schemeOptions } from '../helpers/options';
 import { createDb } from '../../db/client';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
-import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/background';
+import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/backgroundWorkers';
+import { linkSettings } from '../../server/auth/links';
 import { formatMoney, roundTo } from '../../server/reports/format';
 import { CAUTION_TEXT } from '../../server/reports/caution';
 import { STATEMENT_ROUNDING } from '../../server/reports/statementText';
@@ -31,7 +32,7 @@ const income = (v: number) => formatMoney(roundTo(v, STATEMENT_ROUNDING.income))
 beforeAll(async () => {
   s = await startTestServer();
   workerDb = createDb(s.url, 4);
-  background = await startBackgroundWorkers({ db: workerDb.db, pool: workerDb.pool, transport: { send: async () => ({ providerId: 'unused' }), close: () => {} }, log: () => {} });
+  background = await startBackgroundWorkers({ db: workerDb.db, pool: workerDb.pool, transport: { send: async () => ({ providerId: 'unused' }), close: () => {} }, links: linkSettings(s.config), log: () => {} });
   runWorker = await startRunWorker({ databaseUrl: s.url, threads: 1, log: () => {} });
   const trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startTestServer, type TestServer } from '../helpers/app';
 import { launch, PHONE, screenshot, signIn, WIDE } from './browser';
+import { PASSWORD_RULE } from '../../constants/passwords';
 
 let s: TestServer;
 beforeAll(async () => {
@@ -64,6 +65,40 @@ describe('signed-in menus follow the permission table', () => {
       await more.getByRole('link', { name: 'Account' }).click();
       await b.page.getByRole('heading', { name: 'My account' }).waitFor();
       expect(await more.count()).toBe(0);
+    } finally {
+      await b.close();
+    }
+  });
+});
+
+describe('invitations on screen', () => {
+  it('says the invitation was e-mailed, lists it with send-again and cancel, and the invited person sees the password rule', async () => {
+    const b = await launch(WIDE);
+    try {
+      await signIn(b.page, s.baseUrl, 'admin@fernleigh.example');
+      await b.page.getByTestId('nav-People').click();
+      await b.page.getByTestId('invite-email').fill('e2e-invitee@example.org');
+      await b.page.getByRole('button', { name: 'Send invitation' }).click();
+      await b.page.getByText('Invitation e-mailed to e2e-invitee@example.org').waitFor();
+      const row = b.page.getByTestId('invitation-e2e-invitee@example.org');
+      await row.getByRole('button', { name: 'Send again' }).waitFor();
+      await row.getByRole('button', { name: 'Cancel invitation' }).waitFor();
+      expect(await b.page.getByText(/token=/).count()).toBe(0);
+      await screenshot(b.page, 'people-invitation-emailed-wide');
+      await row.getByRole('button', { name: 'Send again' }).click();
+      await b.page.getByText(/Sent again to e2e-invitee@example.org/).waitFor();
+      // The invited person opens the link from the e-mail (signed out, in a fresh browser).
+      const token = await s.tokenFor('e2e-invitee@example.org', 'invitation');
+      const p = await launch(PHONE);
+      try {
+        await p.page.goto(`${s.baseUrl}/link?token=${token}`);
+        await p.page.getByRole('heading', { name: 'Accept your invitation' }).waitFor();
+        await p.page.getByText(PASSWORD_RULE).first().waitFor();
+        await p.page.getByText('I already have an account: sign in to accept').waitFor();
+        await screenshot(p.page, 'invitation-link-phone');
+      } finally {
+        await p.close();
+      }
     } finally {
       await b.close();
     }

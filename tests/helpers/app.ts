@@ -1,8 +1,11 @@
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
+import { and, desc, eq, isNull } from 'drizzle-orm';
 import { createApp } from '../../server/app';
-import { loadConfig } from '../../server/config';
+import { loadConfig, type Config } from '../../server/config';
+import { linkSettings, tokenFor } from '../../server/auth/links';
 import { createDb, type Db } from '../../db/client';
+import { accessTokens } from '../../db/schema';
 import { seedDemo } from '../../db/seed';
 import { createTestDatabase } from './database';
 
@@ -12,6 +15,12 @@ export type TestServer = {
   db: Db;
   schemeId: string;
   secondSchemeId: string;
+  config: Config;
+  /**
+   * The token of the newest live link of `kind` for `email` — what the person finds in the
+   * e-mail (the token is never stored; it is recomputed from the row id and the secret).
+   */
+  tokenFor: (email: string, kind: 'invitation' | 'password_reset' | 'sign_in_confirmation') => Promise<string>;
   /** Stops the HTTP server and its pool, then starts a new app on the same database and port (a server restart). */
   restart: () => Promise<void>;
   close: () => Promise<void>;
@@ -42,11 +51,23 @@ export async function startTestServer(opts: { seed?: boolean; env?: Record<strin
     await new Promise((r) => server.close(r));
     await appDb.pool.end();
   };
+  const links = linkSettings(config);
   return {
     url,
     baseUrl: `http://127.0.0.1:${port}`,
     db,
     ...ids,
+    config,
+    tokenFor: async (email, kind) => {
+      const [t] = await db
+        .select({ id: accessTokens.id })
+        .from(accessTokens)
+        .where(and(eq(accessTokens.email, email.toLowerCase()), eq(accessTokens.kind, kind), isNull(accessTokens.usedAt), isNull(accessTokens.revokedAt)))
+        .orderBy(desc(accessTokens.createdAt))
+        .limit(1);
+      if (!t) throw new Error(`no live ${kind} link for ${email}`);
+      return tokenFor(links, t.id);
+    },
     restart: async () => {
       await stopServer();
       appDb = createDb(url, 5);
@@ -97,8 +118,8 @@ export class Client {
   patch = (p: string, b?: unknown) => this.call('PATCH', p, b ?? {});
   put = (p: string, b?: unknown) => this.call('PUT', p, b ?? {});
   delete = (p: string) => this.call('DELETE', p);
-  async signIn(email: string, password = 'keelson-demo-2026') {
-    const r = await this.post('/auth/sign-in', { email, password });
+  async signIn(email: string, password = 'keelson-demo-2026', headers: Record<string, string> = {}) {
+    const r = await this.call('POST', '/auth/sign-in', { email, password }, headers);
     if (r.status !== 200) throw new Error(`sign-in as ${email} failed: ${r.status} ${JSON.stringify(r.body)}`);
     return r.body;
   }

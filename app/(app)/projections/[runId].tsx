@@ -34,8 +34,12 @@ export default function RunView() {
     >
       <CautionNotice draft={r.assumptionsDraft} />
       {r.status === 'queued' || r.status === 'running' ? (
-        <Card title={r.status === 'queued' ? 'Waiting for a worker' : 'Simulating'}>
-          <ProgressBar fraction={r.progress} label={r.status === 'queued' ? 'Queued' : 'Progress'} />
+        <Card title={r.stalled ? 'Stalled' : r.status === 'queued' ? 'Waiting for a worker' : 'Simulating'}>
+          {r.stalled ? (
+            <Notice tone="warning">The worker running this projection stopped responding. It goes back to the queue within a minute and starts again from the beginning; nothing needs doing.</Notice>
+          ) : (
+            <ProgressBar fraction={r.progress} label={r.status === 'queued' ? 'Queued' : 'Progress'} />
+          )}
         </Card>
       ) : null}
       {r.status === 'failed' ? <Notice tone="error">{`This run failed: ${r.error ?? 'no reason was recorded'}`}</Notice> : null}

@@ -43,7 +43,7 @@ function RunRow({ run }: { run: RunSummary }) {
       </Text>
       <Text style={styles.muted}>
         {when} · seed {run.seed} · λ {run.riskAversion} · assumptions v{run.assumptionSet.version}
-        {run.assumptionsDraft ? ' (DRAFT)' : ''} · {run.status === 'running' ? `running ${Math.round(run.progress * 100)}%` : run.status}
+        {run.assumptionsDraft ? ' (DRAFT)' : ''} · {run.stalled ? 'stalled — will be retried' : run.status === 'running' ? `running ${Math.round(run.progress * 100)}%` : run.status}
       </Text>
     </Pressable>
   );

@@ -100,13 +100,13 @@ async function insertReport(fx: Fixtures) {
   return r;
 }
 
-async function insertMessage(fx: Fixtures, status: 'failed' | 'sent') {
+async function insertMessage(fx: Fixtures, status: 'failed') {
   const [m] = await fx.db
     .insert(outboxMessages)
     .values({ schemeId: fx.schemeId, kind: 'board-report', recipients: [`board-${fx.nonce}@example.org`], subject: `Fixture ${fx.nonce}`, body: 'Fixture', status, attempts: 1, lastError: status === 'failed' ? 'fixture failure' : null })
     .returning();
-  const [a] = await fx.db.insert(outboxAttachments).values({ messageId: m.id, filename: 'fixture.pdf', contentType: 'application/pdf', content: Buffer.from('%PDF-1.3 fixture') }).returning();
-  return { m, a };
+  await fx.db.insert(outboxAttachments).values({ messageId: m.id, filename: 'fixture.pdf', contentType: 'application/pdf', content: Buffer.from('%PDF-1.3 fixture') });
+  return { m };
 }
 
 export const examples: Examples = {
@@ -151,10 +151,6 @@ export const examples: Examples = {
     return { params: { schemeId: fx.schemeId, exportId: e.id } };
   },
   'GET /schemes/:schemeId/outbox': (fx) => ({ params: { schemeId: fx.schemeId } }),
-  'GET /schemes/:schemeId/outbox/:messageId/attachments/:attachmentId': async (fx) => {
-    const { m, a } = await insertMessage(fx, 'sent');
-    return { params: { schemeId: fx.schemeId, messageId: m.id, attachmentId: a.id } };
-  },
   'POST /schemes/:schemeId/outbox/:messageId/retry': async (fx) => {
     const { m } = await insertMessage(fx, 'failed');
     return { params: { schemeId: fx.schemeId, messageId: m.id } };
