@@ -3,6 +3,7 @@ import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { assumptionSets, fundAssumptions } from '../../db/schema';
 import { AnnuitySchema, FundSchema, ScenarioSchema, checkCorrelationMatrix } from '../../simulation';
 import { csvUpload } from '../uploads';
@@ -62,7 +63,7 @@ export function assumptionsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '', access: 'assumptions:edit' }, async (req, res) => {
     const body = AssumptionSetBody.parse(req.body);
-    res.status(201).json(await createDraft(ctx.db, req, body));
+    res.status(201).json(await createDraft(ctx.db, contextOf(req), body));
   });
 
   // Suggestions from a price history: computed and returned, never stored.
@@ -81,23 +82,23 @@ export function assumptionsRouter(ctx: AppContext): Router {
   defineRoute(r, M, { method: 'put', path: '/:setId', access: 'assumptions:edit' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
     const body = AssumptionSetBody.parse(req.body);
-    res.json(await updateDraft(ctx.db, req, setId, body));
+    res.json(await updateDraft(ctx.db, contextOf(req), setId, body));
   });
 
   defineRoute(r, M, { method: 'delete', path: '/:setId', access: 'assumptions:edit' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
-    await deleteDraft(ctx.db, req, setId);
+    await deleteDraft(ctx.db, contextOf(req), setId);
     res.json({ ok: true });
   });
 
   defineRoute(r, M, { method: 'post', path: '/:setId/drafts', access: 'assumptions:edit' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
-    res.status(201).json(await copyToDraft(ctx.db, req, setId));
+    res.status(201).json(await copyToDraft(ctx.db, contextOf(req), setId));
   });
 
   defineRoute(r, M, { method: 'post', path: '/:setId/approve', access: 'assumptions:approve' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
-    res.json(await approve(ctx.db, req, setId));
+    res.json(await approve(ctx.db, contextOf(req), setId));
   });
 
   defineRoute(r, M, { method: 'get', path: '/:setId/compare/:otherId', access: 'assumptions:read' }, async (req, res) => {

@@ -3,6 +3,7 @@ import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { defaultOptions } from '../../db/schema';
 import { GlidePointSchema } from '../../simulation';
 import { createOption, getOption, listOptions, setArchived, updateOption } from '../services/options';
@@ -40,7 +41,7 @@ export function optionsRouter(ctx: AppContext): Router {
   });
 
   defineRoute(r, M, { method: 'post', path: '', access: 'options:edit' }, async (req, res) => {
-    res.status(201).json(await createOption(ctx.db, req, OptionBody.parse(req.body)));
+    res.status(201).json(await createOption(ctx.db, contextOf(req), OptionBody.parse(req.body)));
   });
 
   defineRoute(r, M, { method: 'get', path: '/:optionId', access: 'options:read' }, async (req, res) => {
@@ -50,12 +51,12 @@ export function optionsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'put', path: '/:optionId', access: 'options:edit' }, async (req, res) => {
     const { optionId } = OptionId.parse(req.params);
-    res.json(await updateOption(ctx.db, req, optionId, OptionBody.parse(req.body)));
+    res.json(await updateOption(ctx.db, contextOf(req), optionId, OptionBody.parse(req.body)));
   });
 
   defineRoute(r, M, { method: 'post', path: '/:optionId/archive', access: 'options:edit' }, async (req, res) => {
     const { optionId } = OptionId.parse(req.params);
-    res.json(await setArchived(ctx.db, req, optionId, ArchiveBody.parse(req.body).archived));
+    res.json(await setArchived(ctx.db, contextOf(req), optionId, ArchiveBody.parse(req.body).archived));
   });
 
   return r;

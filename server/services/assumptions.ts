@@ -1,7 +1,6 @@
 import { and, desc, eq, sql } from 'drizzle-orm';
-import { contextOf } from './context';
+import { schemeOf, type ServiceContext } from './context';
 import { alias } from 'drizzle-orm/pg-core';
-import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { assumptionSets, fundAssumptions, funds, users } from '../../db/schema';
 import { conflict, notFound } from '../errors';
@@ -149,8 +148,8 @@ async function nextVersion(tx: DbOrTx, schemeId: string): Promise<number> {
 }
 
 /** Creates a new draft from the given content (a copy of `basedOnId` when given). */
-export async function createDraft(db: DbOrTx, req: Request, content: AssumptionContent, basedOnId: string | null = null): Promise<AssumptionSetDetail> {
-  const schemeId = req.scheme!.id;
+export async function createDraft(db: DbOrTx, ctx: ServiceContext, content: AssumptionContent, basedOnId: string | null = null): Promise<AssumptionSetDetail> {
+  const schemeId = schemeOf(ctx);
   await assertContentFunds(db, schemeId, content);
   const id = await db.transaction(async (tx) => {
     const version = await nextVersion(tx, schemeId);
@@ -162,20 +161,20 @@ export async function createDraft(db: DbOrTx, req: Request, content: AssumptionC
         status: 'draft',
         ...contentColumns(content),
         basedOnId,
-        createdBy: req.user!.id,
+        createdBy: ctx.actor?.id ?? null,
       })
       .returning({ id: assumptionSets.id });
     await writeContent(tx, row.id, content);
-    await audit(tx, contextOf(req), { action: 'assumptions.draft-created', entity: 'assumption_set', entityId: row.id, after: { version, basedOnId, ...content } });
+    await audit(tx, ctx, { action: 'assumptions.draft-created', entity: 'assumption_set', entityId: row.id, after: { version, basedOnId, ...content } });
     return row.id;
   });
   return getSet(db, schemeId, id);
 }
 
 /** A new draft copied from an existing version (approved or not). */
-export async function copyToDraft(db: DbOrTx, req: Request, fromId: string): Promise<AssumptionSetDetail> {
-  const from = await getSet(db, req.scheme!.id, fromId);
-  return createDraft(db, req, contentOf(from), from.id);
+export async function copyToDraft(db: DbOrTx, ctx: ServiceContext, fromId: string): Promise<AssumptionSetDetail> {
+  const from = await getSet(db, schemeOf(ctx), fromId);
+  return createDraft(db, ctx, contentOf(from), from.id);
 }
 
 function immutable(set: { version: number; approvedBy: string | null; approvedAt: Date | null }) {
@@ -184,8 +183,8 @@ function immutable(set: { version: number; approvedBy: string | null; approvedAt
 }
 
 /** Replaces a draft's content. An approved set answers 409. */
-export async function updateDraft(db: DbOrTx, req: Request, id: string, content: AssumptionContent): Promise<AssumptionSetDetail> {
-  const schemeId = req.scheme!.id;
+export async function updateDraft(db: DbOrTx, ctx: ServiceContext, id: string, content: AssumptionContent): Promise<AssumptionSetDetail> {
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     // Lock the row so an approval cannot slip in between the check and the write.
     const [locked] = await tx.select({ id: assumptionSets.id }).from(assumptionSets).where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId))).for('update');
@@ -198,27 +197,27 @@ export async function updateDraft(db: DbOrTx, req: Request, id: string, content:
       .set({ ...contentColumns(content), updatedAt: new Date() })
       .where(and(eq(assumptionSets.id, id), eq(assumptionSets.status, 'draft')));
     await writeContent(tx, id, content);
-    await audit(tx, contextOf(req), { action: 'assumptions.draft-updated', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) }, after: { version: before.version, ...content } });
+    await audit(tx, ctx, { action: 'assumptions.draft-updated', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) }, after: { version: before.version, ...content } });
   });
   return getSet(db, schemeId, id);
 }
 
 /** Discards a draft. An approved set answers 409. */
-export async function deleteDraft(db: DbOrTx, req: Request, id: string): Promise<void> {
-  const schemeId = req.scheme!.id;
+export async function deleteDraft(db: DbOrTx, ctx: ServiceContext, id: string): Promise<void> {
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     const [locked] = await tx.select({ id: assumptionSets.id }).from(assumptionSets).where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId))).for('update');
     if (!locked) throw notFound('No such assumption set in this scheme.');
     const before = await getSet(tx, schemeId, id);
     if (before.status !== 'draft') throw immutable(before);
     await tx.delete(assumptionSets).where(eq(assumptionSets.id, id));
-    await audit(tx, contextOf(req), { action: 'assumptions.draft-discarded', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) } });
+    await audit(tx, ctx, { action: 'assumptions.draft-discarded', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) } });
   });
 }
 
 /** A trustee approves a draft; from then on it is immutable. */
-export async function approve(db: DbOrTx, req: Request, id: string): Promise<AssumptionSetDetail> {
-  const schemeId = req.scheme!.id;
+export async function approve(db: DbOrTx, ctx: ServiceContext, id: string): Promise<AssumptionSetDetail> {
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     const [locked] = await tx.select({ id: assumptionSets.id }).from(assumptionSets).where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId))).for('update');
     if (!locked) throw notFound('No such assumption set in this scheme.');
@@ -226,8 +225,8 @@ export async function approve(db: DbOrTx, req: Request, id: string): Promise<Ass
     if (before.status !== 'draft') throw immutable(before);
     if (before.funds.length === 0) throw conflict(`Version ${before.version} has no funds; add at least one before approving.`);
     const approvedAt = new Date();
-    await tx.update(assumptionSets).set({ status: 'approved', approvedBy: req.user!.id, approvedAt }).where(eq(assumptionSets.id, id));
-    await audit(tx, contextOf(req), { action: 'assumptions.approved', entity: 'assumption_set', entityId: id, before: { version: before.version, status: 'draft' }, after: { version: before.version, status: 'approved', approvedAt } });
+    await tx.update(assumptionSets).set({ status: 'approved', approvedBy: ctx.actor?.id ?? null, approvedAt }).where(eq(assumptionSets.id, id));
+    await audit(tx, ctx, { action: 'assumptions.approved', entity: 'assumption_set', entityId: id, before: { version: before.version, status: 'draft' }, after: { version: before.version, status: 'approved', approvedAt } });
   });
   return getSet(db, schemeId, id);
 }

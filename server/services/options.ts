@@ -1,6 +1,5 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
-import { contextOf } from './context';
-import type { Request } from 'express';
+import { schemeOf, type ServiceContext } from './context';
 import type { DbOrTx } from '../../db/client';
 import { defaultOptions, type GlidePathPoint } from '../../db/schema';
 import { conflict, notFound } from '../errors';
@@ -45,19 +44,19 @@ export async function getOption(db: DbOrTx, schemeId: string, id: string): Promi
   return row;
 }
 
-export async function createOption(db: DbOrTx, req: Request, input: OptionInput): Promise<OptionRow> {
-  const schemeId = req.scheme!.id;
+export async function createOption(db: DbOrTx, ctx: ServiceContext, input: OptionInput): Promise<OptionRow> {
+  const schemeId = schemeOf(ctx);
   await checkFunds(db, schemeId, input);
   return db.transaction(async (tx) => {
     if (await nameTaken(tx, schemeId, input.name)) throw conflict(`There is already an option called "${input.name}".`);
     const [row] = await tx.insert(defaultOptions).values({ schemeId, name: input.name, description: input.description, glidePath: normalise(input.glidePath) }).returning();
-    await audit(tx, contextOf(req), { action: 'option.created', entity: 'default_option', entityId: row.id, after: snapshot(row) });
+    await audit(tx, ctx, { action: 'option.created', entity: 'default_option', entityId: row.id, after: snapshot(row) });
     return row;
   });
 }
 
-export async function updateOption(db: DbOrTx, req: Request, id: string, input: OptionInput): Promise<OptionRow> {
-  const schemeId = req.scheme!.id;
+export async function updateOption(db: DbOrTx, ctx: ServiceContext, id: string, input: OptionInput): Promise<OptionRow> {
+  const schemeId = schemeOf(ctx);
   return db.transaction(async (tx) => {
     const [before] = await tx.select().from(defaultOptions).where(and(eq(defaultOptions.id, id), eq(defaultOptions.schemeId, schemeId))).for('update');
     if (!before) throw notFound('No such default option in this scheme.');
@@ -68,20 +67,20 @@ export async function updateOption(db: DbOrTx, req: Request, id: string, input: 
       .set({ name: input.name, description: input.description, glidePath: normalise(input.glidePath), updatedAt: new Date() })
       .where(eq(defaultOptions.id, id))
       .returning();
-    await audit(tx, contextOf(req), { action: 'option.updated', entity: 'default_option', entityId: id, before: snapshot(before), after: snapshot(row) });
+    await audit(tx, ctx, { action: 'option.updated', entity: 'default_option', entityId: id, before: snapshot(before), after: snapshot(row) });
     return row;
   });
 }
 
 /** Archives (or restores) an option: past runs keep their own snapshot, so nothing is deleted. */
-export async function setArchived(db: DbOrTx, req: Request, id: string, archived: boolean): Promise<OptionRow> {
-  const schemeId = req.scheme!.id;
+export async function setArchived(db: DbOrTx, ctx: ServiceContext, id: string, archived: boolean): Promise<OptionRow> {
+  const schemeId = schemeOf(ctx);
   return db.transaction(async (tx) => {
     const [before] = await tx.select().from(defaultOptions).where(and(eq(defaultOptions.id, id), eq(defaultOptions.schemeId, schemeId))).for('update');
     if (!before) throw notFound('No such default option in this scheme.');
     if (!archived && (await nameTaken(tx, schemeId, before.name, id))) throw conflict(`An active option is already called "${before.name}"; rename one first.`);
     const [row] = await tx.update(defaultOptions).set({ archived, updatedAt: new Date() }).where(eq(defaultOptions.id, id)).returning();
-    await audit(tx, contextOf(req), { action: archived ? 'option.archived' : 'option.restored', entity: 'default_option', entityId: id, before: { archived: before.archived }, after: { archived } });
+    await audit(tx, ctx, { action: archived ? 'option.archived' : 'option.restored', entity: 'default_option', entityId: id, before: { archived: before.archived }, after: { archived } });
     return row;
   });
 }
