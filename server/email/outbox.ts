@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import { contextOf } from '../services/context';
+import { contextOf, type ServiceContext } from '../services/context';
 import type { Pool } from 'pg';
 import { and, eq, inArray } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../../db/client';
@@ -23,18 +23,18 @@ export type OutgoingMail = {
  * delivery — all in the caller's transaction. Call `backgroundProducer(pool)` before opening
  * the transaction (the queue client needs a connection of its own to start).
  */
-export async function queueMail(pool: Pool, tx: DbOrTx, req: Request | null, m: OutgoingMail) {
+export async function queueMail(pool: Pool, tx: DbOrTx, ctx: ServiceContext | null, m: OutgoingMail) {
   const recipients = (Array.isArray(m.to) ? m.to : [m.to]).map((a) => a.trim()).filter(Boolean);
   if (!recipients.length) throw new Error('a message needs at least one recipient');
   const [row] = await tx
     .insert(outboxMessages)
-    .values({ schemeId: m.schemeId ?? null, kind: m.kind ?? 'account', recipients, subject: m.subject, body: m.text, createdBy: req?.user?.id ?? null })
+    .values({ schemeId: m.schemeId ?? null, kind: m.kind ?? 'account', recipients, subject: m.subject, body: m.text, createdBy: ctx?.actor?.id ?? null })
     .returning();
   if (m.attachments?.length) {
     await tx.insert(outboxAttachments).values(m.attachments.map((a) => ({ messageId: row.id, filename: a.filename, contentType: a.contentType, content: a.content })));
   }
   await enqueue(pool, tx, MAIL_QUEUE, { id: row.id });
-  await audit(tx, req ? contextOf(req) : null, {
+  await audit(tx, ctx, {
     action: 'mail.queued',
     schemeId: m.schemeId ?? null,
     entity: 'outbox_message',
@@ -53,7 +53,7 @@ export function mailSender(db: Db, pool: Pool) {
   return async (m: OutgoingMail, req: Request | null = null): Promise<void> => {
     try {
       await backgroundProducer(pool);
-      await db.transaction((tx) => queueMail(pool, tx, req, m));
+      await db.transaction((tx) => queueMail(pool, tx, req ? contextOf(req) : null, m));
     } catch (err) {
       const reason = `could not be queued: ${err instanceof Error ? err.message : String(err)}`;
       console.error(`keelson: mail "${m.subject}" ${reason}`);

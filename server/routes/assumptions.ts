@@ -7,9 +7,8 @@ import { contextOf } from '../services/context';
 import { assumptionSets, fundAssumptions } from '../../db/schema';
 import { AnnuitySchema, FundSchema, ScenarioSchema, checkCorrelationMatrix } from '../../simulation';
 import { csvUpload } from '../uploads';
-import { listFunds } from '../services/funds';
-import { suggestFromHistory } from '../services/history';
-import { approve, compareSets, copyToDraft, createDraft, deleteDraft, getSet, latestApproved, listSets, updateDraft } from '../services/assumptions';
+import { suggestionForScheme } from '../services/history';
+import { approve, compareVersions, copyToDraft, createDraft, deleteDraft, getSet, listSets, updateDraft } from '../services/assumptions';
 
 const FundAssumptionBody = createInsertSchema(fundAssumptions)
   .pick({ fundId: true, expectedReturn: true, volatility: true, annualCharge: true })
@@ -68,10 +67,7 @@ export function assumptionsRouter(ctx: AppContext): Router {
 
   // Suggestions from a price history: computed and returned, never stored.
   defineRoute(r, M, { method: 'post', path: '/history', access: 'assumptions:edit' }, csvUpload('file'), async (req, res) => {
-    const schemeFunds = await listFunds(ctx.db, req.scheme!.id);
-    const suggestion = await suggestFromHistory(req.file!.buffer, req.file!.originalname, schemeFunds);
-    const current = await latestApproved(ctx.db, req.scheme!.id);
-    res.json({ ...suggestion, current: current ? { id: current.id, version: current.version, funds: current.funds, correlations: current.correlations } : null });
+    res.json(await suggestionForScheme(ctx.db, req.scheme!.id, { buffer: req.file!.buffer, name: req.file!.originalname }));
   });
 
   defineRoute(r, M, { method: 'get', path: '/:setId', access: 'assumptions:read' }, async (req, res) => {
@@ -103,8 +99,7 @@ export function assumptionsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'get', path: '/:setId/compare/:otherId', access: 'assumptions:read' }, async (req, res) => {
     const { setId, otherId } = Pair.parse(req.params);
-    const [a, b] = await Promise.all([getSet(ctx.db, req.scheme!.id, setId), getSet(ctx.db, req.scheme!.id, otherId)]);
-    res.json(compareSets(a, b));
+    res.json(await compareVersions(ctx.db, req.scheme!.id, setId, otherId));
   });
 
   return r;

@@ -2,6 +2,7 @@ import { Router, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { createReport, emailReport, getReport, listReports, reportComparisonCsv, reportPdf } from '../services/reports';
 
 const Uuid = z.string().uuid('is not a valid id');
@@ -30,7 +31,7 @@ export function reportsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '/reports', access: 'reports:create' }, async (req, res) => {
     const body = ReportBody.parse(req.body ?? {});
-    res.status(201).json(await createReport(ctx, req, body));
+    res.status(201).json(await createReport(ctx, contextOf(req), body));
   });
 
   defineRoute(r, M, { method: 'get', path: '/reports/:reportId', access: 'reports:read' }, async (req, res) => {
@@ -48,7 +49,7 @@ export function reportsRouter(ctx: AppContext): Router {
   });
 
   defineRoute(r, M, { method: 'post', path: '/reports/:reportId/email', access: 'reports:create' }, async (req, res) => {
-    res.status(202).json(await emailReport(ctx, req, Uuid.parse(req.params.reportId)));
+    res.status(202).json(await emailReport(ctx, contextOf(req), Uuid.parse(req.params.reportId)));
   });
 
   return r;

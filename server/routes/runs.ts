@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { getRun, listRuns, MAX_SEED, requestRun, rerun, runChoices } from '../services/runs';
 
 const Uuid = z.string().uuid('is not a valid id');
@@ -56,7 +57,7 @@ export function runsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '/runs', access: 'runs:create' }, async (req, res) => {
     const body = RunBody.parse(req.body ?? {});
-    res.status(201).json(await requestRun(ctx, req, body));
+    res.status(201).json(await requestRun(ctx, contextOf(req), body));
   });
 
   defineRoute(r, M, { method: 'get', path: '/runs/:runId', access: 'runs:read' }, async (req, res) => {
@@ -66,7 +67,7 @@ export function runsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '/runs/:runId/rerun', access: 'runs:create' }, async (req, res) => {
     const runId = Uuid.parse(req.params.runId);
-    res.status(201).json(await rerun(ctx, req, runId));
+    res.status(201).json(await rerun(ctx, contextOf(req), runId));
   });
 
   return r;

@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { conflict } from '../errors';
 import { exportSummary, getExport, illustrativeStatement, listExports, requestExport, statementFile, statementSources } from '../services/statements';
 import { STATEMENT_PERCENTILES, STATEMENT_ROUNDING, WHAT_IF } from '../reports/statementText';
@@ -44,7 +45,7 @@ export function statementsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '/statement-exports', access: 'statements:export' }, async (req, res) => {
     const body = ExportBody.parse(req.body ?? {});
-    res.status(202).json(await requestExport(ctx.db, ctx.pool, req, body));
+    res.status(202).json(await requestExport(ctx.db, ctx.pool, contextOf(req), body));
   });
 
   defineRoute(r, M, { method: 'get', path: '/statement-exports/:exportId', access: 'statements:export' }, async (req, res) => {

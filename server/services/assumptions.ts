@@ -248,6 +248,12 @@ export type SetComparison = {
   correlations: CorrelationChange[];
 };
 
+/** Two versions of the scheme's assumptions, compared. */
+export async function compareVersions(db: DbOrTx, schemeId: string, aId: string, bId: string): Promise<SetComparison> {
+  const [a, b] = await Promise.all([getSet(db, schemeId, aId), getSet(db, schemeId, bId)]);
+  return compareSets(a, b);
+}
+
 /** Side-by-side difference of two versions: every field, every fund and every correlation pair that differs. */
 export function compareSets(a: AssumptionSetDetail, b: AssumptionSetDetail): SetComparison {
   const fieldNames: FieldChange['field'][] = ['setAt', 'inflation', 'salaryGrowth', 'annuityRealRate', 'annuityYears', 'rationale'];

@@ -1,6 +1,5 @@
 import { randomInt } from 'node:crypto';
-import { contextOf } from './context';
-import type { Request } from 'express';
+import { schemeOf, type ServiceContext } from './context';
 import { and, desc, eq, getTableColumns } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { assumptionSets, defaultOptions, funds, illustrativeMembers, projectionRuns } from '../../db/schema';
@@ -18,39 +17,39 @@ export const MAX_SEED = 2 ** 31 - 1;
  * Requests a run: builds the scenario from the scheme's data, stores it as the run's input
  * snapshot, and queues the job — run row, job and audit event in one transaction.
  */
-export async function requestRun(ctx: AppContext, req: Request, body: RunRequest) {
-  const schemeId = req.scheme!.id;
+export async function requestRun(app: AppContext, ctx: ServiceContext, body: RunRequest) {
+  const schemeId = schemeOf(ctx);
   const seed = body.seed ?? randomInt(0, MAX_SEED);
   // Start the queue client before taking a connection for the transaction (it needs its own).
-  await producerFor(ctx.pool);
-  return ctx.db.transaction(async (tx) => {
+  await producerFor(app.pool);
+  return app.db.transaction(async (tx) => {
     const snapshot = await buildScenario(tx, schemeId, { ...body, seed });
-    return insertAndQueue(ctx, tx, req, snapshot, { seed, paths: body.paths, riskAversion: body.riskAversion, rerunOf: null });
+    return insertAndQueue(app, tx, ctx, snapshot, { seed, paths: body.paths, riskAversion: body.riskAversion, rerunOf: null });
   });
 }
 
 /** Runs a finished run again from its stored snapshot; the worker compares the two results. */
-export async function rerun(ctx: AppContext, req: Request, runId: string) {
-  await producerFor(ctx.pool);
-  return ctx.db.transaction(async (tx) => {
-    const [orig] = await tx.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, req.scheme!.id)));
+export async function rerun(app: AppContext, ctx: ServiceContext, runId: string) {
+  await producerFor(app.pool);
+  return app.db.transaction(async (tx) => {
+    const [orig] = await tx.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeOf(ctx))));
     if (!orig) throw notFound('No such run in this scheme.');
     if (orig.status !== 'done') throw conflict('Only a finished run can be run again for comparison.');
-    return insertAndQueue(ctx, tx, req, orig.input as ScenarioSnapshot, { seed: orig.seed, paths: orig.paths, riskAversion: orig.riskAversion, rerunOf: orig.id });
+    return insertAndQueue(app, tx, ctx, orig.input as ScenarioSnapshot, { seed: orig.seed, paths: orig.paths, riskAversion: orig.riskAversion, rerunOf: orig.id });
   });
 }
 
 async function insertAndQueue(
-  ctx: AppContext,
+  app: AppContext,
   tx: Parameters<Parameters<AppContext['db']['transaction']>[0]>[0],
-  req: Request,
+  ctx: ServiceContext,
   snapshot: ScenarioSnapshot,
   run: { seed: number; paths: number; riskAversion: number; rerunOf: string | null },
 ) {
   const [row] = await tx
     .insert(projectionRuns)
     .values({
-      schemeId: req.scheme!.id,
+      schemeId: schemeOf(ctx),
       status: 'queued',
       assumptionSetId: snapshot.assumptionSet.id,
       assumptionsDraft: snapshot.assumptionSet.status !== 'approved',
@@ -59,11 +58,11 @@ async function insertAndQueue(
       riskAversion: run.riskAversion,
       input: snapshot,
       rerunOf: run.rerunOf,
-      requestedBy: req.user!.id,
+      requestedBy: ctx.actor?.id ?? null,
     })
     .returning();
-  await enqueueRun(ctx.pool, tx, row.id);
-  await audit(tx, contextOf(req), {
+  await enqueueRun(app.pool, tx, row.id);
+  await audit(tx, ctx, {
     action: run.rerunOf ? 'run.repeated' : 'run.requested',
     entity: 'projection_run',
     entityId: row.id,
@@ -112,34 +111,34 @@ export function summary(r: Omit<RunRow, 'result'>) {
   };
 }
 
-export async function listRuns(ctx: AppContext, schemeId: string, limit: number) {
-  const rows = await ctx.db.select(summaryColumns).from(projectionRuns).where(eq(projectionRuns.schemeId, schemeId)).orderBy(desc(projectionRuns.createdAt)).limit(limit);
+export async function listRuns(app: AppContext, schemeId: string, limit: number) {
+  const rows = await app.db.select(summaryColumns).from(projectionRuns).where(eq(projectionRuns.schemeId, schemeId)).orderBy(desc(projectionRuns.createdAt)).limit(limit);
   return rows.map(summary);
 }
 
-export async function getRun(ctx: AppContext, schemeId: string, runId: string) {
-  const [r] = await ctx.db.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeId)));
+export async function getRun(app: AppContext, schemeId: string, runId: string) {
+  const [r] = await app.db.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeId)));
   if (!r) throw notFound('No such run in this scheme.');
   return { ...summary(r), input: r.input as ScenarioSnapshot, result: r.status === 'done' ? r.result : null };
 }
 
 /** What a run can be made of: the scheme's assumption sets, options, members and funds. */
-export async function runChoices(ctx: AppContext, schemeId: string) {
-  const sets = await ctx.db
+export async function runChoices(app: AppContext, schemeId: string) {
+  const sets = await app.db
     .select({ id: assumptionSets.id, version: assumptionSets.version, status: assumptionSets.status, setAt: assumptionSets.setAt, fundOrder: assumptionSets.fundOrder })
     .from(assumptionSets)
     .where(eq(assumptionSets.schemeId, schemeId))
     .orderBy(desc(assumptionSets.version));
-  const options = await ctx.db
+  const options = await app.db
     .select({ id: defaultOptions.id, name: defaultOptions.name, description: defaultOptions.description })
     .from(defaultOptions)
     .where(and(eq(defaultOptions.schemeId, schemeId), eq(defaultOptions.archived, false)))
     .orderBy(defaultOptions.createdAt, defaultOptions.name);
-  const members = await ctx.db
+  const members = await app.db
     .select({ id: illustrativeMembers.id, label: illustrativeMembers.label, age: illustrativeMembers.age, retirementAge: illustrativeMembers.retirementAge })
     .from(illustrativeMembers)
     .where(eq(illustrativeMembers.schemeId, schemeId))
     .orderBy(illustrativeMembers.age);
-  const fundRows = await ctx.db.select({ id: funds.id, name: funds.name }).from(funds).where(eq(funds.schemeId, schemeId)).orderBy(funds.name);
+  const fundRows = await app.db.select({ id: funds.id, name: funds.name }).from(funds).where(eq(funds.schemeId, schemeId)).orderBy(funds.name);
   return { assumptionSets: sets, options, members, funds: fundRows };
 }

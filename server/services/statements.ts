@@ -1,5 +1,4 @@
-import type { Request } from 'express';
-import { contextOf } from './context';
+import { schemeOf, type ServiceContext } from './context';
 import type { Pool } from 'pg';
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
@@ -150,8 +149,8 @@ export function slug(s: string): string {
 export type ExportRequest = { runId: string; optionId: string; scope: 'illustrative' | 'membership'; format: 'pdf' | 'csv' };
 
 /** Creates an export and queues its job: row, job and audit event in one transaction. */
-export async function requestExport(db: Db, pool: Pool, req: Request, body: ExportRequest) {
-  const schemeId = req.scheme!.id;
+export async function requestExport(db: Db, pool: Pool, ctx: ServiceContext, body: ExportRequest) {
+  const schemeId = schemeOf(ctx);
   const run = await loadFinishedRun(db, schemeId, body.runId);
   optionOf(run, body.optionId);
   let memberCount = run.input.members.length;
@@ -162,9 +161,9 @@ export async function requestExport(db: Db, pool: Pool, req: Request, body: Expo
   }
   await backgroundProducer(pool);
   return db.transaction(async (tx) => {
-    const [row] = await tx.insert(statementExports).values({ schemeId, runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount, createdBy: req.user!.id }).returning();
+    const [row] = await tx.insert(statementExports).values({ schemeId, runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount, createdBy: ctx.actor?.id ?? null }).returning();
     await enqueue(pool, tx, EXPORT_QUEUE, { id: row.id });
-    await audit(tx, contextOf(req), { action: 'statements.export-requested', entity: 'statement_export', entityId: row.id, after: { runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount } });
+    await audit(tx, ctx, { action: 'statements.export-requested', entity: 'statement_export', entityId: row.id, after: { runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount } });
     return exportSummary(row);
   });
 }
