@@ -1,14 +1,12 @@
 import { useState } from 'react';
 import { Pressable, Text, TextInput, View } from 'react-native';
 import { lambdaFromGamble } from '@/simulation';
+import { BOARD_LAMBDA, clampLambda } from '@/constants/riskAversion';
 import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
 import { Button, styles } from './ui';
 import { money } from './projectionFigures';
 
-const PRESETS = [-1, 0, 1, 2, 3, 5, 8];
-const MIN = -5;
-const MAX = 50;
-const clamp = (v: number) => Math.min(MAX, Math.max(MIN, Math.round(v * 10) / 10));
+const clamp = clampLambda;
 
 /** The board's risk aversion λ: presets, a stepper and a typed value, plus a calibration by a stated gamble. */
 export function LambdaControl({ value, onChange, currency }: { value: number; onChange: (v: number) => void; currency: string }) {
@@ -20,7 +18,7 @@ export function LambdaControl({ value, onChange, currency }: { value: number; on
         λ sets how much the board dislikes a spread of outcomes. At 0 only the average pot counts (risk-neutral); higher values weigh poor outcomes more heavily; below 0 the board would prefer a wider spread (risk-seeking).
       </Text>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' }}>
-        <Step label="−" a11y="Lower λ by 0.5" onPress={() => onChange(clamp(value - 0.5))} />
+        <Step label="−" a11y={`Lower λ by ${BOARD_LAMBDA.step}`} onPress={() => onChange(clamp(value - BOARD_LAMBDA.step))} />
         <TextInput
           accessibilityLabel="Risk aversion λ"
           value={shown}
@@ -38,8 +36,8 @@ export function LambdaControl({ value, onChange, currency }: { value: number; on
           }}
           style={[styles.input, { width: 80, textAlign: 'center' }]}
         />
-        <Step label="+" a11y="Raise λ by 0.5" onPress={() => onChange(clamp(value + 0.5))} />
-        {PRESETS.map((p) => (
+        <Step label="+" a11y={`Raise λ by ${BOARD_LAMBDA.step}`} onPress={() => onChange(clamp(value + BOARD_LAMBDA.step))} />
+        {BOARD_LAMBDA.presets.map((p) => (
           <Pressable
             key={p}
             accessibilityRole="button"

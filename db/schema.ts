@@ -24,8 +24,10 @@ import {
   json,
   customType,
 } from 'drizzle-orm/pg-core';
+import { ROLES, type Role } from '../constants/permissions';
 
-export const roleEnum = pgEnum('role', ['administrator', 'trustee', 'actuary', 'communications', 'board']);
+/** The roles come from the permission table, the one list the guards and menus read too. */
+export const roleEnum = pgEnum('role', ROLES);
 
 export const users = pgTable(
   'users',
@@ -290,7 +292,7 @@ export const fundAssumptionsRelations = relations(fundAssumptions, ({ one }) => 
   fund: one(funds, { fields: [fundAssumptions.fundId], references: [funds.id] }),
 }));
 
-export type Role = (typeof roleEnum.enumValues)[number];
+export type { Role };
 export type User = typeof users.$inferSelect;
 export type Scheme = typeof schemes.$inferSelect;
 

@@ -3,15 +3,10 @@ import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
 import { contextOf } from '../services/context';
+import { ReportBody } from '../../schemas/runs';
 import { createReport, emailReport, getReport, listReports, reportComparisonCsv, reportPdf } from '../services/reports';
 
 const Uuid = z.string().uuid('is not a valid id');
-
-export const ReportBody = z.strictObject({
-  runId: Uuid,
-  title: z.string('must be text').trim().max(200, 'must be at most 200 characters').optional(),
-  riskAversion: z.number('must be a number').min(-5, 'must be at least -5').max(50, 'must be at most 50').optional(),
-});
 
 /** Sends a file for download (attachment) or for viewing in the browser (inline). */
 export function sendFile(res: Response, file: { filename: string; body: Buffer | string }, contentType: string, inline = false) {

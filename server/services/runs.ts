@@ -6,12 +6,11 @@ import { assumptionSets, defaultOptions, funds, illustrativeMembers, projectionR
 import { conflict, notFound } from '../errors';
 import { enqueueRun, producerFor } from '../jobs/queue';
 import { audit } from './audit';
+import { MAX_SEED } from '../../schemas/runs';
 import { buildScenario, type ScenarioChoice, type ScenarioSnapshot } from './scenario';
 
 export type RunRequest = Omit<ScenarioChoice, 'seed'> & { seed?: number };
 
-/** Seeds are stored as PostgreSQL integers: 0 … 2³¹ − 1. */
-export const MAX_SEED = 2 ** 31 - 1;
 
 /**
  * Requests a run: builds the scenario from the scheme's data, stores it as the run's input
