@@ -1,44 +1,41 @@
 import { ScrollView, Text, View } from 'react-native';
-import { colors, space, type } from '@/constants/theme';
-import { money, pct, type OptionFigures } from './projectionFigures';
+import { colors, space, type, type OptionStyle } from '@/constants/theme';
+import { comparisonCells, comparisonColumns, type ComparisonKey, type RankedOption } from '@/figures';
+import { OptionMark } from './OptionMark';
 
 // theme's `figure` is declared readonly; React Native's style type wants a mutable array.
 const FIGURE = { ...type.figure, fontVariant: ['tabular-nums' as const] as 'tabular-nums'[] };
 
-type Col = { label: string; width: number; value: (r: OptionFigures) => string; se?: (r: OptionFigures) => string | null };
+/** Column widths on screen; headings, order and every figure come from figures/. */
+const WIDTH: Record<ComparisonKey, number> = {
+  certaintyEquivalentPot: 150,
+  certaintyEquivalentReturn: 120,
+  medianReal: 120,
+  p5Real: 120,
+  probabilityReachingTarget: 130,
+  expectedShortfallReal: 140,
+  meanReal: 120,
+  medianRealIncome: 110,
+};
 
 /**
  * Options ranked by certainty-equivalent pot at the chosen λ. Money is real (today's money)
  * and rounded for reading; "±" is one Monte Carlo standard error. The option column stays
  * put while the figures scroll sideways on a phone.
  */
-export function ComparisonTable({ rows, currency, lambda, colorOf }: { rows: OptionFigures[]; currency: string; lambda: number; colorOf: (optionId: string) => string }) {
-  const m = (v: number) => money(v, currency);
-  const se = (v: number) => (Number.isFinite(v) ? `± ${m(v)}` : null);
-  const cols: Col[] = [
-    { label: `Certainty-equivalent pot (λ = ${lambda})`, width: 150, value: (r) => m(r.cePot), se: (r) => se(r.ceStandardError) },
-    { label: 'CE annual real return', width: 110, value: (r) => pct(r.ceAnnualReturn, 2) },
-    { label: 'Median pot', width: 120, value: (r) => m(r.pair.atRetirement.percentiles.real.p50), se: (r) => se(r.pair.extraStandardErrors.p50Real) },
-    { label: '5th percentile pot', width: 120, value: (r) => m(r.pair.atRetirement.percentiles.real.p5), se: (r) => se(r.pair.extraStandardErrors.p5Real) },
-    {
-      label: 'Chance of reaching the income target',
-      width: 130,
-      value: (r) => pct(r.pair.atRetirement.probabilityReachingTarget, 0),
-      se: (r) => `± ${pct(r.pair.extraStandardErrors.probabilityReachingTarget, 1)}`,
-    },
-    { label: 'Expected shortfall (mean of worst 5%)', width: 140, value: (r) => m(r.pair.atRetirement.expectedShortfall.real) },
-    { label: 'Mean pot', width: 120, value: (r) => m(r.pair.atRetirement.mean.real), se: (r) => se(r.pair.atRetirement.standardError.real) },
-  ];
+export function ComparisonTable({ rows, currency, lambda, styleOf, testID = 'comparison-table' }: { rows: RankedOption[]; currency: string; lambda: number; styleOf: (optionId: string) => OptionStyle; testID?: string }) {
+  const cols = comparisonColumns(lambda);
+  const cells = rows.map((r) => comparisonCells(r, currency));
   const rowH = 56;
   return (
-    <View style={{ flexDirection: 'row' }} testID="comparison-table" accessibilityLabel="Options ranked by certainty-equivalent pot">
-      <View style={{ width: 150, borderRightWidth: 1, borderColor: colors.rule }}>
-        <Header label="Rank and option" width={150} />
-        {rows.map((r, i) => (
+    <View style={{ flexDirection: 'row' }} testID={testID} accessibilityLabel="Options ranked by certainty-equivalent pot">
+      <View style={{ width: 170, borderRightWidth: 1, borderColor: colors.rule }}>
+        <Header label="Rank and option" width={170} />
+        {rows.map((r) => (
           <View key={r.optionId} style={{ height: rowH, flexDirection: 'row', alignItems: 'center', gap: space.xs, borderTopWidth: 1, borderColor: colors.rule, paddingRight: space.xs }} testID="ranked-option">
-            <View style={{ width: 10, height: 10, borderRadius: 5, backgroundColor: colorOf(r.optionId) }} />
+            <OptionMark style={styleOf(r.optionId)} size={12} />
             <Text style={[type.label, { color: colors.ink, flex: 1 }]} numberOfLines={2}>
-              {i + 1}. {r.name}
+              {r.rank}. {r.name}
             </Text>
           </View>
         ))}
@@ -47,17 +44,17 @@ export function ComparisonTable({ rows, currency, lambda, colorOf }: { rows: Opt
         <View>
           <View style={{ flexDirection: 'row' }}>
             {cols.map((c) => (
-              <Header key={c.label} label={c.label} width={c.width} right />
+              <Header key={c.key} label={c.label} width={WIDTH[c.key]} right />
             ))}
           </View>
-          {rows.map((r) => (
+          {rows.map((r, i) => (
             <View key={r.optionId} style={{ flexDirection: 'row', height: rowH, borderTopWidth: 1, borderColor: colors.rule }}>
               {cols.map((c) => {
-                const s = c.se?.(r);
+                const cell = cells[i][c.key];
                 return (
-                  <View key={c.label} style={{ width: c.width, paddingHorizontal: space.sm, justifyContent: 'center', alignItems: 'flex-end' }}>
-                    <Text style={[FIGURE, { color: colors.ink, textAlign: 'right' }]}>{c.value(r)}</Text>
-                    {s ? <Text style={[type.caption, { color: colors.mutedInk, fontVariant: ['tabular-nums' as const] }]}>{s}</Text> : null}
+                  <View key={c.key} testID={`cell-${c.key}`} style={{ width: WIDTH[c.key], paddingHorizontal: space.sm, justifyContent: 'center', alignItems: 'flex-end' }}>
+                    <Text style={[FIGURE, { color: colors.ink, textAlign: 'right' }]}>{cell.text}</Text>
+                    {cell.standardError ? <Text style={[type.caption, { color: colors.mutedInk, fontVariant: ['tabular-nums' as const] }]}>{cell.standardError}</Text> : null}
                   </View>
                 );
               })}

@@ -6,7 +6,7 @@ export function StatusBadge({ status }: { status: 'draft' | 'approved' }) {
   const draft = status === 'draft';
   return (
     <View style={{ alignSelf: 'flex-start', paddingHorizontal: space.sm, paddingVertical: 2, borderRadius: radius.sm, backgroundColor: draft ? colors.accentTint : colors.successTint }}>
-      <Text style={[type.label, { color: draft ? '#7A4F12' : colors.success }]}>{draft ? 'Draft' : 'Approved'}</Text>
+      <Text style={[type.label, { color: draft ? colors.accentInk : colors.success }]}>{draft ? 'Draft' : 'Approved'}</Text>
     </View>
   );
 }

@@ -56,3 +56,4 @@ export const ReportBody = z.strictObject({
   title: z.string('must be text').trim().max(200, 'must be at most 200 characters').optional(),
   riskAversion: RiskAversion.optional(),
 });
+export type ReportRequest = z.input<typeof ReportBody>;

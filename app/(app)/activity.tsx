@@ -3,6 +3,7 @@ import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { colors, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useActivity, type AuditEvent } from '@/hooks/usePeople';
+import { dateTime } from '@/figures';
 
 /** Plain descriptions of audit actions; unknown actions show their code. */
 const ACTION_TEXT: Record<string, string> = {
@@ -57,7 +58,7 @@ function EventRow({ e }: { e: AuditEvent }) {
         <Text style={{ fontFamily: 'SourceSans3_600SemiBold' }}>{e.actorEmail ?? 'Someone'}</Text> {ACTION_TEXT[e.action] ?? e.action}
         {e.entity ? ` · ${e.entity}` : ''}
       </Text>
-      <Text style={styles.muted}>{new Date(e.at).toLocaleString('en-GB')}</Text>
+      <Text style={styles.muted}>{dateTime(e.at)}</Text>
       {e.before !== null && e.before !== undefined ? <Text style={styles.muted}>Before: {describe(e.before)}</Text> : null}
       {e.after !== null && e.after !== undefined ? <Text style={styles.muted}>After: {describe(e.after)}</Text> : null}
     </View>

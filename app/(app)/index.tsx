@@ -9,11 +9,10 @@ import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/the
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useOverview } from '@/hooks/useOverview';
 import { useSession } from '@/hooks/useSession';
+import { count, date, dateTime, percent } from '@/figures';
 
 const STATUS_TEXT = { queued: 'Waiting to start', running: 'Running', done: 'Finished', failed: 'Failed' } as const;
 const STATUS_COLOUR = { queued: colors.mutedInk, running: colors.accent, done: colors.success, failed: colors.danger } as const;
-
-const day = (iso: string) => new Date(iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
 
 function Row({ href, children, testID }: { href: string; children: ReactNode; testID?: string }) {
   return (
@@ -29,7 +28,7 @@ function Figure({ label, value }: { label: string; value: number | null }) {
   if (value === null) return null;
   return (
     <View style={{ minWidth: 120, flexGrow: 1 }}>
-      <Text style={[type.heading, { color: colors.ink, fontVariant: ['tabular-nums'] }]}>{value.toLocaleString('en-GB')}</Text>
+      <Text style={[type.heading, { color: colors.ink, fontVariant: ['tabular-nums'] }]}>{count(value)}</Text>
       <Text style={styles.muted}>{label}</Text>
     </View>
   );
@@ -71,11 +70,11 @@ export default function Overview() {
               {o.assumptions.latestApproved ? (
                 <Row href={`/assumptions/${o.assumptions.latestApproved.id}`} testID="overview-approved-set">
                   <Text style={styles.body}>
-                    Version {o.assumptions.latestApproved.version}, set at {day(o.assumptions.latestApproved.setAt)}
+                    Version {o.assumptions.latestApproved.version}, set at {date(o.assumptions.latestApproved.setAt)}
                   </Text>
                   <Text style={styles.muted}>
                     Approved{o.assumptions.latestApproved.approvedBy ? ` by ${o.assumptions.latestApproved.approvedBy}` : ''}
-                    {o.assumptions.latestApproved.approvedAt ? ` on ${day(o.assumptions.latestApproved.approvedAt)}` : ''}
+                    {o.assumptions.latestApproved.approvedAt ? ` on ${date(o.assumptions.latestApproved.approvedAt)}` : ''}
                   </Text>
                 </Row>
               ) : (
@@ -85,7 +84,7 @@ export default function Overview() {
                 <Row key={d.id} href={`/assumptions/${d.id}`}>
                   <Text style={[styles.body, { color: colors.accent }]}>Draft version {d.version} — not yet approved</Text>
                   <Text style={styles.muted}>
-                    {d.createdBy ? `Started by ${d.createdBy}, ` : ''}last changed {day(d.updatedAt)}
+                    {d.createdBy ? `Started by ${d.createdBy}, ` : ''}last changed {dateTime(d.updatedAt)}
                     {can(scheme.role, 'assumptions:approve') ? ' · awaiting a trustee' : ''}
                   </Text>
                 </Row>
@@ -98,11 +97,11 @@ export default function Overview() {
               {o.runs.map((r) => (
                 <Row key={r.id} href={`/projections/${r.id}`}>
                   <Text style={styles.body}>
-                    {day(r.createdAt)} · {r.paths.toLocaleString('en-GB')} paths{r.assumptionsDraft ? ' · DRAFT assumptions' : ''}
+                    {dateTime(r.createdAt)} · {count(r.paths)} paths{r.assumptionsDraft ? ' · DRAFT assumptions' : ''}
                   </Text>
                   <Text style={[type.label, { color: STATUS_COLOUR[r.status] }]}>
                     {STATUS_TEXT[r.status]}
-                    {r.status === 'running' ? ` · ${Math.round(r.progress * 100)}%` : ''}
+                    {r.status === 'running' ? ` · ${percent(r.progress, 'chance')}` : ''}
                   </Text>
                 </Row>
               ))}
@@ -120,7 +119,7 @@ export default function Overview() {
                 <Row key={r.id} href={`/reports/${r.id}`}>
                   <Text style={styles.body}>{r.title}</Text>
                   <Text style={styles.muted}>
-                    {day(r.createdAt)}
+                    {dateTime(r.createdAt)}
                     {r.draft ? ' · on DRAFT assumptions' : ''}
                   </Text>
                 </Row>

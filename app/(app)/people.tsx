@@ -9,6 +9,7 @@ import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useSession } from '@/hooks/useSession';
 import { useChangeRole, useInvite, usePeople, useRemovePerson, useResetLink, type Person } from '@/hooks/usePeople';
+import { dateTime } from '@/figures';
 
 export default function People() {
   const { scheme, can } = useCurrentScheme();
@@ -54,7 +55,7 @@ function PeopleManager({ schemeId, schemeName }: { schemeId: string; schemeName:
                 <View key={p.id} style={{ paddingVertical: space.sm, borderTopWidth: 1, borderColor: colors.rule }}>
                   <Text style={styles.body}>{p.email}</Text>
                   <Text style={styles.muted}>
-                    {ROLE_LABELS[p.role]} · expires {new Date(p.expiresAt).toLocaleDateString('en-GB')}
+                    {ROLE_LABELS[p.role]} · expires {dateTime(p.expiresAt)}
                   </Text>
                 </View>
               ))}

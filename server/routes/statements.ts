@@ -5,7 +5,7 @@ import { defineRoute } from '../routing';
 import { contextOf } from '../services/context';
 import { conflict } from '../errors';
 import { exportSummary, getExport, illustrativeStatement, listExports, requestExport, statementFile, statementSources } from '../services/statements';
-import { STATEMENT_PERCENTILES, STATEMENT_ROUNDING, WHAT_IF } from '../reports/statementText';
+import { moneyRoundingNote, STATEMENT_PERCENTILES, WHAT_IF } from '../../figures';
 import { sendFile } from './reports';
 
 const Uuid = z.string().uuid('is not a valid id');
@@ -25,7 +25,8 @@ export function statementsRouter(ctx: AppContext): Router {
   const M = '/schemes/:schemeId';
 
   defineRoute(r, M, { method: 'get', path: '/statement-sources', access: 'statements:export' }, async (req, res) => {
-    res.json({ ...(await statementSources(ctx.db, req.scheme!.id)), rounding: STATEMENT_ROUNDING, percentiles: STATEMENT_PERCENTILES, whatIf: WHAT_IF });
+    const currency = req.scheme!.currency;
+    res.json({ ...(await statementSources(ctx.db, req.scheme!.id)), rounding: { pot: moneyRoundingNote('pot', currency), income: moneyRoundingNote('income', currency) }, percentiles: STATEMENT_PERCENTILES, whatIf: WHAT_IF });
   });
 
   defineRoute(r, M, { method: 'get', path: '/statements/preview', access: 'statements:export' }, async (req, res) => {

@@ -4,6 +4,7 @@ import { alias } from 'drizzle-orm/pg-core';
 import type { DbOrTx } from '../../db/client';
 import { assumptionSets, fundAssumptions, funds, users } from '../../db/schema';
 import { conflict, notFound } from '../errors';
+import { date } from '../../figures';
 import { audit } from './audit';
 import { assertSchemeFunds } from './funds';
 
@@ -178,7 +179,7 @@ export async function copyToDraft(db: DbOrTx, ctx: ServiceContext, fromId: strin
 }
 
 function immutable(set: { version: number; approvedBy: string | null; approvedAt: Date | null }) {
-  const when = set.approvedAt ? set.approvedAt.toISOString().slice(0, 10) : 'an earlier date';
+  const when = set.approvedAt ? date(set.approvedAt) : 'an earlier date';
   return conflict(`Version ${set.version} was approved${set.approvedBy ? ` by ${set.approvedBy}` : ''} on ${when} and can no longer change. Start a new draft from it instead.`);
 }
 

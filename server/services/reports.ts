@@ -8,8 +8,8 @@ import { loadFinishedRun, slug } from './statements';
 import { buildReportContent, type ReportContent, type RunForReport } from '../reports/content';
 import { comparisonCsvRows, renderBoardReport } from '../reports/boardPdf';
 import { toCsv } from '../reports/csv';
-import { CAUTION_TEXT } from '../reports/caution';
-import { formatDate } from '../reports/format';
+import { CAUTION_TEXT, date } from '../../figures';
+import { listFunds } from './funds';
 import { backgroundProducer } from '../jobs/background';
 import { queueMail } from '../email/outbox';
 
@@ -40,10 +40,11 @@ export async function createReport(app: AppContext, ctx: ServiceContext, body: R
   }
   const createdAt = new Date();
   const lambda = body.riskAversion ?? run.riskAversion;
-  const title = body.title?.trim() || `Default option review, ${formatDate(createdAt)}`;
+  const title = body.title?.trim() || `Default option review, ${date(createdAt)}`;
   const forReport: RunForReport = { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result };
   const content = buildReportContent(forReport, { title, schemeName: scheme.name, currency: scheme.currency, lambda, createdAt, approvedBy });
-  const pdf = await renderBoardReport(content, forReport);
+  const schemeFunds = await listFunds(app.db, scheme.id);
+  const pdf = await renderBoardReport(content, forReport, schemeFunds.map((f) => f.id));
   return app.db.transaction(async (tx) => {
     const [row] = await tx
       .insert(reports)

@@ -9,7 +9,7 @@ import type { StoredResult } from '../jobs/result';
 import type { ScenarioSnapshot } from './scenario';
 import { audit } from './audit';
 import { backgroundProducer, enqueue, EXPORT_QUEUE } from '../jobs/background';
-import { STATEMENT_MAX_PATHS, STATEMENT_PERCENTILES, WHAT_IF, statementText, type StatementFigures } from '../reports/statementText';
+import { STATEMENT_MAX_PATHS, STATEMENT_PERCENTILES, WHAT_IF, statementText, type StatementFigures } from '../../figures';
 import { renderStatements, statementCsv } from '../reports/statementPdf';
 
 type RunRow = typeof projectionRuns.$inferSelect;

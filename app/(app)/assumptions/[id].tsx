@@ -5,7 +5,7 @@ import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/componen
 import { DataTable } from '@/components/DataTable';
 import { CorrelationEditor } from '@/components/CorrelationEditor';
 import { StatusBadge } from '@/components/StatusBadge';
-import { day, parseNumber, parsePct, pct, pctInput } from '@/components/format';
+import { date, parseNumberInput, parsePercentInput, percent, percentInputText } from '@/figures';
 import { colors, MIN_TOUCH, radius, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { ApiError, fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
@@ -29,12 +29,12 @@ function toDraft(set: AssumptionSet): Draft {
   const text: Record<string, string> = {
     setAt: set.setAt,
     rationale: set.rationale,
-    inflation: pctInput(set.inflation),
-    salaryGrowth: pctInput(set.salaryGrowth),
-    annuityRealRate: pctInput(set.annuityRealRate),
+    inflation: percentInputText(set.inflation),
+    salaryGrowth: percentInputText(set.salaryGrowth),
+    annuityRealRate: percentInputText(set.annuityRealRate),
     annuityYears: String(set.annuityYears),
   };
-  for (const f of set.funds) for (const [k] of FUND_FIELDS) text[`${f.fundId}.${k}`] = pctInput(f[k]);
+  for (const f of set.funds) for (const [k] of FUND_FIELDS) text[`${f.fundId}.${k}`] = percentInputText(f[k]);
   return { text, fundIds: set.funds.map((f) => f.fundId), names: Object.fromEntries(set.funds.map((f) => [f.fundId, f.name])), correlations: set.correlations.map((r) => r.slice()) };
 }
 
@@ -42,11 +42,11 @@ function toDraft(set: AssumptionSet): Draft {
 function fromDraft(d: Draft): { content?: AssumptionContent; errors: Record<string, string> } {
   const errors: Record<string, string> = {};
   const rate = (key: string, path: string) => {
-    const v = parsePct(d.text[key] ?? '');
+    const v = parsePercentInput(d.text[key] ?? '');
     if (v === null) errors[path] = 'enter a percentage, e.g. 2.5';
     return v ?? 0;
   };
-  const years = parseNumber(d.text.annuityYears ?? '');
+  const years = parseNumberInput(d.text.annuityYears ?? '');
   if (years === null) errors.annuityYears = 'enter a whole number of years';
   const content: AssumptionContent = {
     setAt: (d.text.setAt ?? '').trim(),
@@ -74,7 +74,7 @@ function PctInput({ label, value, onChange, error }: { label: string; value: str
         value={value}
         onChangeText={onChange}
         inputMode="decimal"
-        style={[type.body, { minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: error ? colors.danger : '#B9B2A7', borderRadius: radius.sm, paddingHorizontal: space.sm, color: colors.ink, backgroundColor: colors.surface }]}
+        style={[type.body, { minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: error ? colors.danger : colors.inputBorder, borderRadius: radius.sm, paddingHorizontal: space.sm, color: colors.ink, backgroundColor: colors.surface }]}
       />
       {error ? <Text style={[type.caption, { color: colors.danger }]}>{error}</Text> : null}
     </View>
@@ -83,9 +83,9 @@ function PctInput({ label, value, onChange, error }: { label: string; value: str
 
 function Summary({ set }: { set: AssumptionSet }) {
   const figures: [string, string][] = [
-    ['Inflation', pct(set.inflation)],
-    ['Salary growth', pct(set.salaryGrowth)],
-    ['Income conversion', `${pct(set.annuityRealRate)} real over ${set.annuityYears} years`],
+    ['Inflation', percent(set.inflation, 'rate')],
+    ['Salary growth', percent(set.salaryGrowth, 'rate')],
+    ['Income conversion', `${percent(set.annuityRealRate, 'rate')} real over ${set.annuityYears} years`],
   ];
   return (
     <>
@@ -110,9 +110,9 @@ function Summary({ set }: { set: AssumptionSet }) {
           rowKey={(f) => f.fundId}
           columns={[
             { key: 'name', title: 'Fund', width: 160, render: (f) => f.name },
-            { key: 'r', title: 'Expected return', align: 'right', width: 120, render: (f) => pct(f.expectedReturn) },
-            { key: 'v', title: 'Volatility', align: 'right', width: 100, render: (f) => pct(f.volatility) },
-            { key: 'c', title: 'Annual charge', align: 'right', width: 110, render: (f) => pct(f.annualCharge, 3) },
+            { key: 'r', title: 'Expected return', align: 'right', width: 120, render: (f) => percent(f.expectedReturn, 'rate') },
+            { key: 'v', title: 'Volatility', align: 'right', width: 100, render: (f) => percent(f.volatility, 'rate') },
+            { key: 'c', title: 'Annual charge', align: 'right', width: 110, render: (f) => percent(f.annualCharge, 'rate') },
           ]}
         />
         <Text style={styles.muted}>Expected return and volatility of the annual simple nominal return; the charge is a fraction of the pot a year.</Text>
@@ -172,11 +172,11 @@ export default function AssumptionSetScreen() {
   return (
     <Screen
       title={`Assumptions v${set.version}`}
-      subtitle={`Set at ${day(set.setAt)} · drafted by ${set.createdBy ?? '—'}${set.basedOnVersion ? ` from v${set.basedOnVersion}` : ''}`}
+      subtitle={`Set at ${date(set.setAt)} · drafted by ${set.createdBy ?? '—'}${set.basedOnVersion ? ` from v${set.basedOnVersion}` : ''}`}
       actions={<StatusBadge status={set.status} />}
     >
       {set.status === 'approved' ? (
-        <Notice tone="success">{`Approved by ${set.approvedBy ?? 'a former trustee'} on ${day(set.approvedAt)}. This version can no longer change; a change starts a new draft copied from it.`}</Notice>
+        <Notice tone="success">{`Approved by ${set.approvedBy ?? 'a former trustee'} on ${date(set.approvedAt)}. This version can no longer change; a change starts a new draft copied from it.`}</Notice>
       ) : (
         <Notice tone="warning">Draft: not yet approved. Results that use it are marked as draft.</Notice>
       )}

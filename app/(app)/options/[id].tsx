@@ -5,7 +5,7 @@ import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/componen
 import { GlidePathChart } from '@/components/GlidePathChart';
 import { GlidePathEditor, type EditablePoint } from '@/components/GlidePathEditor';
 import { DataTable } from '@/components/DataTable';
-import { pct } from '@/components/format';
+import { percent } from '@/figures';
 import { space, WIDE_BREAKPOINT } from '@/constants/theme';
 import { ApiError, fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
@@ -54,7 +54,7 @@ export default function OptionScreen() {
             rowKey={(p) => String(p.yearsToRetirement)}
             columns={[
               { key: 'y', title: 'Years to retirement', width: 110, align: 'right', render: (p) => String(p.yearsToRetirement) },
-              ...funds.funds.map((f) => ({ key: f.id, title: f.name, width: 120, align: 'right' as const, render: (p: EditablePoint) => pct(p.weights[f.id] ?? 0, 1) })),
+              ...funds.funds.map((f) => ({ key: f.id, title: f.name, width: 120, align: 'right' as const, render: (p: EditablePoint) => percent(p.weights[f.id] ?? 0, 'share') })),
             ]}
           />
         </Card>

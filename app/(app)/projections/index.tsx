@@ -6,6 +6,7 @@ import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useRunChoices, useRuns, useStartRun, type RunSummary } from '@/hooks/useRuns';
+import { count, dateTime, lambda as lambdaText, percent } from '@/figures';
 
 const PATH_CHOICES = [1000, 2000, 5000, 10000];
 const newSeed = () => Math.floor(Math.random() * 2_147_483_647);
@@ -29,7 +30,7 @@ export default function Projections() {
 
 function RunRow({ run }: { run: RunSummary }) {
   const router = useRouter();
-  const when = new Date(run.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
+  const when = dateTime(run.createdAt);
   return (
     <Pressable
       accessibilityRole="link"
@@ -37,12 +38,12 @@ function RunRow({ run }: { run: RunSummary }) {
       style={{ paddingVertical: space.sm, borderTopWidth: 1, borderColor: colors.rule, minHeight: MIN_TOUCH, gap: 2 }}
     >
       <Text style={[type.label, { color: colors.primary }]}>
-        {run.options.length} options × {run.members.length} members · {run.paths.toLocaleString('en-GB')} paths{run.stress ? ' · with stress' : ''}
+        {run.options.length} options × {run.members.length} members · {count(run.paths)} paths{run.stress ? ' · with stress' : ''}
         {run.rerunOf ? ' · repeat run' : ''}
       </Text>
       <Text style={styles.muted}>
-        {when} · seed {run.seed} · λ {run.riskAversion} · assumptions v{run.assumptionSet.version}
-        {run.assumptionsDraft ? ' (DRAFT)' : ''} · {run.status === 'running' ? `running ${Math.round(run.progress * 100)}%` : run.status}
+        {when} · seed {run.seed} · λ {lambdaText(run.riskAversion)} · assumptions v{run.assumptionSet.version}
+        {run.assumptionsDraft ? ' (DRAFT)' : ''} · {run.status === 'running' ? `running ${percent(run.progress, 'chance')}` : run.status}
       </Text>
     </Pressable>
   );
@@ -61,7 +62,7 @@ function Chip({ label, selected, onPress, note }: { label: string; selected: boo
         justifyContent: 'center',
         borderRadius: radius.md,
         borderWidth: 1,
-        borderColor: selected ? colors.primary : '#B9B2A7',
+        borderColor: selected ? colors.primary : colors.inputBorder,
         backgroundColor: selected ? colors.primaryTint : colors.surface,
       }}
     >
@@ -154,7 +155,7 @@ function NewComparison({ schemeId }: { schemeId: string }) {
       <Text style={styles.label}>Number of paths</Text>
       <View style={styles.row}>
         {PATH_CHOICES.map((p) => (
-          <Chip key={p} label={p.toLocaleString('en-GB')} selected={paths === p} onPress={() => setPaths(p)} />
+          <Chip key={p} label={count(p)} selected={paths === p} onPress={() => setPaths(p)} />
         ))}
       </View>
 
