@@ -25,6 +25,10 @@ import {
   customType,
 } from 'drizzle-orm/pg-core';
 import { ROLES, type Role } from '../constants/permissions';
+// Shapes of the JSON columns: types only (erased), so the schema loads nothing from the server.
+import type { ScenarioSnapshot } from '../server/services/scenario';
+import type { StoredResult } from '../server/jobs/result';
+import type { ReportContent } from '../server/reports/content';
 
 /** The roles come from the permission table, the one list the guards and menus read too. */
 export const roleEnum = pgEnum('role', ROLES);
@@ -258,8 +262,10 @@ export const projectionRuns = pgTable(
     seed: integer('seed').notNull(),
     paths: integer('paths').notNull(),
     riskAversion: doublePrecision('risk_aversion').notNull(),
-    input: jsonb('input').notNull(),
-    result: jsonb('result'),
+    /** Every input of the run as it was requested (engine scenario plus labels and provenance). */
+    input: jsonb('input').$type<ScenarioSnapshot>().notNull(),
+    /** The stored result once done (see server/jobs/result.ts). */
+    result: jsonb('result').$type<StoredResult>(),
     engineVersion: varchar('engine_version', { length: 32 }),
     error: text('error'),
     rerunOf: uuid('rerun_of'),
@@ -315,7 +321,7 @@ export const reports = pgTable(
     riskAversion: doublePrecision('risk_aversion').notNull(),
     draft: boolean('draft').notNull(),
     /** The figures and sentences printed in the PDF, for reading in the app without the file. */
-    content: jsonb('content').notNull(),
+    content: jsonb('content').$type<ReportContent>().notNull(),
     pdf: bytea('pdf').notNull(),
     createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),

@@ -72,7 +72,7 @@ export async function getReport(app: AppContext, schemeId: string, id: string) {
     .leftJoin(users, eq(users.id, reports.createdBy))
     .where(and(eq(reports.id, id), eq(reports.schemeId, schemeId)));
   if (!r) throw notFound('No such report in this scheme.');
-  return { ...r, content: r.content as ReportContent };
+  return r;
 }
 
 export async function reportPdf(app: AppContext, schemeId: string, id: string) {
@@ -101,7 +101,7 @@ export async function emailReport(app: AppContext, ctx: ServiceContext, id: stri
     .where(and(eq(schemeRoles.schemeId, scheme.id), eq(schemeRoles.role, 'board')))
     .orderBy(users.email);
   if (!reviewers.length) throw conflict('This scheme has no board reviewers to send the report to.');
-  const content = r.content as ReportContent;
+  const content = r.content;
   const text = [
     `${ctx.actor?.displayName ?? ctx.actor?.email ?? 'Keelson'} has shared a board scenario report for ${scheme.name}: "${r.title}".`,
     '',

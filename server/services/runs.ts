@@ -34,7 +34,7 @@ export async function rerun(app: AppContext, ctx: ServiceContext, runId: string)
     const [orig] = await tx.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeOf(ctx))));
     if (!orig) throw notFound('No such run in this scheme.');
     if (orig.status !== 'done') throw conflict('Only a finished run can be run again for comparison.');
-    return insertAndQueue(app, tx, ctx, orig.input as ScenarioSnapshot, { seed: orig.seed, paths: orig.paths, riskAversion: orig.riskAversion, rerunOf: orig.id });
+    return insertAndQueue(app, tx, ctx, orig.input, { seed: orig.seed, paths: orig.paths, riskAversion: orig.riskAversion, rerunOf: orig.id });
   });
 }
 
@@ -87,7 +87,6 @@ const { result: _result, ...summaryColumns } = getTableColumns(projectionRuns);
 
 /** A run without its result: for lists and progress polling. */
 export function summary(r: Omit<RunRow, 'result'>) {
-  const input = r.input as ScenarioSnapshot;
   return {
     id: r.id,
     status: r.status,
@@ -97,11 +96,11 @@ export function summary(r: Omit<RunRow, 'result'>) {
     paths: r.paths,
     riskAversion: r.riskAversion,
     assumptionsDraft: r.assumptionsDraft,
-    assumptionSet: input.assumptionSet,
-    options: input.options.map((o) => ({ id: o.id, name: o.name })),
-    members: input.members.map((m) => ({ id: m.id, label: m.label })),
-    stress: input.stress,
-    targetReplacementRatio: input.scenario.targetReplacementRatio,
+    assumptionSet: r.input.assumptionSet,
+    options: r.input.options.map((o) => ({ id: o.id, name: o.name })),
+    members: r.input.members.map((m) => ({ id: m.id, label: m.label })),
+    stress: r.input.stress,
+    targetReplacementRatio: r.input.scenario.targetReplacementRatio,
     engineVersion: r.engineVersion,
     rerunOf: r.rerunOf,
     createdAt: r.createdAt,
@@ -118,7 +117,7 @@ export async function listRuns(app: AppContext, schemeId: string, limit: number)
 export async function getRun(app: AppContext, schemeId: string, runId: string) {
   const [r] = await app.db.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeId)));
   if (!r) throw notFound('No such run in this scheme.');
-  return { ...summary(r), input: r.input as ScenarioSnapshot, result: r.status === 'done' ? r.result : null };
+  return { ...summary(r), input: r.input, result: r.status === 'done' ? r.result : null };
 }
 
 /** What a run can be made of: the scheme's assumption sets, options, members and funds. */

@@ -20,9 +20,8 @@ export async function loadFinishedRun(db: Db, schemeId: string, runId: string): 
   const [run] = await db.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeId)));
   if (!run) throw notFound('No such run in this scheme.');
   if (run.status !== 'done' || !run.result) throw conflict('That run has not finished; statements and reports need a finished run.');
-  const result = run.result as StoredResult;
-  if (result.kind !== 'keelson-run-result' || !result.base?.result?.results) throw conflict('That run has no stored result in a form Keelson can read.');
-  return run as RunRow & { input: ScenarioSnapshot; result: StoredResult };
+  if (run.result.kind !== 'keelson-run-result' || !run.result.base?.result?.results) throw conflict('That run has no stored result in a form Keelson can read.');
+  return { ...run, result: run.result };
 }
 
 function optionOf(run: { input: ScenarioSnapshot }, optionId: string) {
@@ -43,7 +42,7 @@ export async function statementSources(db: Db, schemeId: string) {
   return {
     membershipCount: count,
     runs: rows.map((r) => {
-      const s = r.input as ScenarioSnapshot;
+      const s = r.input;
       return {
         id: r.id,
         finishedAt: r.finishedAt,
