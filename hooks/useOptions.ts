@@ -1,10 +1,12 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Wire } from '@/types/wire';
+import type { GlidePathPoint } from '@/db/schema';
+import type { OptionInput, OptionRow } from '@/server/services/options';
 import { api } from './api';
 import { useCurrentScheme } from './useCurrentScheme';
 
-export type GlidePathPoint = { yearsToRetirement: number; weights: Record<string, number> };
-export type DefaultOption = { id: string; name: string; description: string; glidePath: GlidePathPoint[]; archived: boolean; createdAt: string; updatedAt: string };
-export type OptionInput = { name: string; description: string; glidePath: GlidePathPoint[] };
+export type { GlidePathPoint, OptionInput };
+export type DefaultOption = Wire<OptionRow>;
 
 export const optionKeys = {
   all: (schemeId: string) => ['options', schemeId] as const,

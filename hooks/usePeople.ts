@@ -1,19 +1,19 @@
 import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Role } from '@/constants/permissions';
+import type { Wire } from '@/types/wire';
+import type { accessTokens, auditEvents, users } from '@/db/schema';
 import { api } from './api';
 
-export type Person = { id: string; email: string; displayName: string; role: Role; since: string; active: boolean };
-export type PendingInvitation = { id: string; email: string; role: Role; expiresAt: string; createdAt: string };
-export type AuditEvent = {
-  id: number;
-  at: string;
-  actorEmail: string | null;
-  action: string;
-  entity: string | null;
-  entityId: string | null;
-  before: unknown;
-  after: unknown;
-};
+type UserRow = typeof users.$inferSelect;
+type TokenRow = typeof accessTokens.$inferSelect;
+type AuditRow = typeof auditEvents.$inferSelect;
+/**
+ * The people routes answer with columns of these tables (server/routes/people.ts selects them
+ * inline; once those queries move into a service, derive from its return type instead).
+ */
+export type Person = Wire<Pick<UserRow, 'id' | 'email' | 'displayName'> & { role: Role; since: Date; active: boolean }>;
+export type PendingInvitation = Wire<Pick<TokenRow, 'id' | 'email' | 'expiresAt' | 'createdAt'> & { role: Role }>;
+export type AuditEvent = Wire<Pick<AuditRow, 'id' | 'at' | 'actorEmail' | 'action' | 'entity' | 'entityId' | 'before' | 'after'>>;
 
 export const peopleKeys = {
   all: (schemeId: string) => ['schemes', schemeId, 'people'] as const,

@@ -1,54 +1,18 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { ScenarioInput, Stress } from '@/simulation';
 import type { Wire } from '@/types/wire';
 import type { PairFigures as ServerPairFigures, StoredResult, StoredVariant as ServerStoredVariant } from '@/server/jobs/result';
+import type { getRun, runChoices, summary } from '@/server/services/runs';
+import type { RunRequestBody } from '@/schemas/runs';
 import { api } from './api';
 
-export type RunStatus = 'queued' | 'running' | 'done' | 'failed';
-
-export type RunSummary = {
-  id: string;
-  status: RunStatus;
-  progress: number;
-  error: string | null;
-  seed: number;
-  paths: number;
-  riskAversion: number;
-  assumptionsDraft: boolean;
-  assumptionSet: { id: string; version: number; status: 'draft' | 'approved'; setAt: string };
-  options: { id: string; name: string }[];
-  members: { id: string; label: string }[];
-  stress: Stress | null;
-  targetReplacementRatio: number;
-  engineVersion: string | null;
-  rerunOf: string | null;
-  createdAt: string;
-  finishedAt: string | null;
-};
-
+export type RunSummary = Wire<ReturnType<typeof summary>>;
+export type RunStatus = RunSummary['status'];
 export type PairFigures = Wire<ServerPairFigures>;
 export type StoredVariant = Wire<ServerStoredVariant>;
 export type RunResult = Wire<StoredResult>;
-export type RunDetail = RunSummary & {
-  input: { scenario: ScenarioInput; funds: { id: string; name: string }[]; members: { id: string; label: string; age: number; retirementAge: number }[] };
-  result: RunResult | null;
-};
-export type RunChoices = {
-  assumptionSets: { id: string; version: number; status: 'draft' | 'approved'; setAt: string; fundOrder: string[] }[];
-  options: { id: string; name: string; description: string }[];
-  members: { id: string; label: string; age: number; retirementAge: number }[];
-  funds: { id: string; name: string }[];
-};
-export type RunRequest = {
-  assumptionSetId: string;
-  optionIds: string[];
-  memberIds: string[];
-  paths: number;
-  seed?: number;
-  riskAversion: number;
-  targetReplacementRatio: number;
-  stress?: Stress;
-};
+export type RunDetail = Wire<Awaited<ReturnType<typeof getRun>>>;
+export type RunChoices = Wire<Awaited<ReturnType<typeof runChoices>>>;
+export type RunRequest = RunRequestBody;
 
 export const runKeys = {
   all: (schemeId: string) => ['schemes', schemeId, 'runs'] as const,
