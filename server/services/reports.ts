@@ -5,7 +5,7 @@ import { assumptionSets, reports, schemeRoles, schemes, users } from '../../db/s
 import { conflict, notFound } from '../errors';
 import { audit } from './audit';
 import { loadFinishedRun, slug } from './statements';
-import { buildReportContent, type ReportContent, type RunForReport } from '../reports/content';
+import { buildReportContent, type RunForReport } from '../reports/content';
 import { comparisonCsvRows, renderBoardReport } from '../reports/boardPdf';
 import { toCsv } from '../reports/csv';
 import { CAUTION_TEXT, date } from '../../figures';
