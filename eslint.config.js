@@ -86,6 +86,17 @@ module.exports = defineConfig([
     },
   },
   {
+    // The database layer (schema, migrations, seed) sits below the server: it may name the server's
+    // stored shapes as types, nothing more.
+    files: ['db/**/*.ts'],
+    rules: {
+      '@typescript-eslint/no-restricted-imports': [
+        'error',
+        { patterns: [{ group: ['../server/*', '**/server/*', '@/server/*'], allowTypeImports: true, message: 'db/ takes only types from the server.' }] },
+      ],
+    },
+  },
+  {
     files: ['server/**/*.ts'],
     rules: {
       'no-restricted-imports': [

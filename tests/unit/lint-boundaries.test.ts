@@ -57,6 +57,10 @@ describe('layer boundaries in the linter', () => {
     expect(lines(await boundaryErrors('app-uses-server.tsx', 'app/(app)/wrong.tsx'))).toEqual([3, 4]);
   });
 
+  it('keeps the database layer (and the demo seed) below the server', async () => {
+    expect(lines(await boundaryErrors('figures-server-types.ts', 'db/seed.ts'))).toEqual([3]);
+  });
+
   it('allows hand-written colours only in constants/theme.ts', async () => {
     const errors = await boundaryErrors('hex-colour.tsx', 'components/Wrong.tsx');
     expect(errors).toHaveLength(2);
