@@ -1,52 +1,14 @@
 import { Router } from 'express';
-import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
 import { contextOf } from '../services/context';
-import { assumptionSets, fundAssumptions } from '../../db/schema';
-import { AnnuitySchema, FundSchema, ScenarioSchema, checkCorrelationMatrix } from '../../simulation';
+import { AssumptionSetBody } from '../../schemas/assumptions';
 import { csvUpload } from '../uploads';
 import { suggestionForScheme } from '../services/history';
 import { approve, compareVersions, copyToDraft, createDraft, deleteDraft, getSet, listSets, updateDraft } from '../services/assumptions';
 
-const FundAssumptionBody = createInsertSchema(fundAssumptions)
-  .pick({ fundId: true, expectedReturn: true, volatility: true, annualCharge: true })
-  .extend({
-    fundId: z.uuid('is not a valid fund id'),
-    expectedReturn: FundSchema.shape.expectedReturn,
-    volatility: FundSchema.shape.volatility,
-    annualCharge: FundSchema.shape.annualCharge,
-  });
-
-/** The content of an assumption set; rates are fractions, `funds` order is the matrix order. */
-export const AssumptionSetBody = createInsertSchema(assumptionSets)
-  .pick({ setAt: true, rationale: true, inflation: true, salaryGrowth: true, annuityRealRate: true, annuityYears: true })
-  .extend({
-    setAt: z.iso.date('must be a date written YYYY-MM-DD'),
-    rationale: z.string().trim().max(4000, 'must be at most 4,000 characters').default(''),
-    inflation: ScenarioSchema.shape.inflation,
-    salaryGrowth: z.number().gt(-0.5, 'must be above -0.5 (a fraction: 0.03 = 3%)').lt(0.5, 'must be below 0.5 (a fraction: 0.03 = 3%)'),
-    annuityRealRate: AnnuitySchema.shape.realRate,
-    annuityYears: AnnuitySchema.shape.years,
-    funds: z.array(FundAssumptionBody).min(1, 'needs at least one fund').max(50, 'at most 50 funds'),
-    correlations: z.array(z.array(z.number('must be a number'))),
-  })
-  .strict()
-  .superRefine((b, ctx) => {
-    const seen = new Map<string, number>();
-    b.funds.forEach((f, i) => {
-      const earlier = seen.get(f.fundId);
-      if (earlier !== undefined) ctx.addIssue({ code: 'custom', path: ['funds', i, 'fundId'], message: `repeats the fund of funds.${earlier}` });
-      else seen.set(f.fundId, i);
-    });
-    if (b.correlations.length !== b.funds.length) {
-      ctx.addIssue({ code: 'custom', path: ['correlations'], message: `must have ${b.funds.length} rows, one per fund (got ${b.correlations.length})` });
-      return;
-    }
-    // The engine's own check: square, finite, within [−1, 1], symmetric, unit diagonal, positive semidefinite.
-    for (const p of checkCorrelationMatrix(b.correlations)) ctx.addIssue({ code: 'custom', path: ['correlations', ...p.path], message: p.message });
-  });
+// The request body is shared with the assumption-set form (schemas/assumptions.ts).
 
 const SetId = z.object({ setId: z.uuid('is not a valid id') });
 const Pair = z.object({ setId: z.uuid('is not a valid id'), otherId: z.uuid('is not a valid id') });

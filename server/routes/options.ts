@@ -1,30 +1,12 @@
 import { Router } from 'express';
-import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
 import { contextOf } from '../services/context';
-import { defaultOptions } from '../../db/schema';
-import { GlidePointSchema } from '../../simulation';
+import { OptionBody } from '../../schemas/options';
 import { createOption, getOption, listOptions, setArchived, updateOption } from '../services/options';
 
-/** A default option: its glide path uses the engine's point schema (weights are fractions summing to 1). */
-export const OptionBody = createInsertSchema(defaultOptions)
-  .pick({ name: true, description: true, glidePath: true })
-  .extend({
-    name: z.string().trim().min(1, 'must not be empty').max(120, 'must be at most 120 characters'),
-    description: z.string().trim().max(2000, 'must be at most 2,000 characters').default(''),
-    glidePath: z.array(GlidePointSchema).min(1, 'needs at least one point').max(30, 'at most 30 points'),
-  })
-  .strict()
-  .superRefine((o, ctx) => {
-    const seen = new Map<number, number>();
-    o.glidePath.forEach((p, i) => {
-      const earlier = seen.get(p.yearsToRetirement);
-      if (earlier !== undefined) ctx.addIssue({ code: 'custom', path: ['glidePath', i, 'yearsToRetirement'], message: `repeats ${p.yearsToRetirement} years to retirement (also point ${earlier})` });
-      else seen.set(p.yearsToRetirement, i);
-    });
-  });
+// The request body is shared with the glide-path form (schemas/options.ts).
 
 const OptionId = z.object({ optionId: z.uuid('is not a valid id') });
 const ListQuery = z.object({ archived: z.enum(['0', '1']).default('0') });
