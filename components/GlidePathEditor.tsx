@@ -11,6 +11,8 @@ type Props = {
   funds: { id: string; name: string }[];
   points: EditablePoint[];
   onChange: (points: EditablePoint[]) => void;
+  /** Problems per point from the form's schema (the API's own), shown beside the point. */
+  errors?: ({ yearsToRetirement?: string; weights?: string } | undefined)[];
 };
 
 const figure: TextStyle = { ...type.figure, fontVariant: ['tabular-nums'] };
@@ -51,7 +53,7 @@ function WeightInput({ value, label, onCommit, colour }: { value: number; label:
  * Glide-path points, each with its years to retirement and a weight per fund. Changing a
  * weight rebalances the point's other weights so every point always sums to 100%.
  */
-export function GlidePathEditor({ funds, points, onChange }: Props) {
+export function GlidePathEditor({ funds, points, onChange, errors }: Props) {
   const ids = funds.map((f) => f.id);
   const [yearsText, setYearsText] = useState(points.map((p) => String(p.yearsToRetirement)));
   const [shown, setShown] = useState(points);
@@ -99,9 +101,19 @@ export function GlidePathEditor({ funds, points, onChange }: Props) {
                 </Pressable>
               ) : null}
             </View>
+            {errors?.[k]?.yearsToRetirement ? (
+              <Text role="alert" style={[type.caption, { color: colors.danger }]}>
+                Years to retirement: {errors[k]!.yearsToRetirement}
+              </Text>
+            ) : null}
             {funds.map((f, i) => (
               <WeightInput key={f.id} label={f.name} colour={fundColour(i)} value={p.weights[f.id] ?? 0} onCommit={(v) => setPoint(k, { ...p, weights: rebalance(p.weights, ids, f.id, v) })} />
             ))}
+            {errors?.[k]?.weights ? (
+              <Text role="alert" style={[type.caption, { color: colors.danger }]}>
+                Weights: {errors[k]!.weights}
+              </Text>
+            ) : null}
           </View>
         );
       })}

@@ -1,80 +1,100 @@
-import { useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { Text, View, useWindowDimensions } from 'react-native';
+import { Controller, useForm, useWatch } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
 import { useLocalSearchParams, useRouter } from 'expo-router';
-import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
+import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
+import { showServerIssues, TextField } from '@/components/FormFields';
 import { GlidePathChart } from '@/components/GlidePathChart';
 import { GlidePathEditor, type EditablePoint } from '@/components/GlidePathEditor';
 import { DataTable } from '@/components/DataTable';
 import { percent } from '@/figures';
 import { space, WIDE_BREAKPOINT } from '@/constants/theme';
-import { ApiError, fieldError } from '@/hooks/api';
+import { ApiError } from '@/hooks/api';
+import { OptionBody, type OptionBodyInput } from '@/schemas/options';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useFunds } from '@/hooks/useFunds';
-import { useOption, useSaveOption } from '@/hooks/useOptions';
+import { useOption, useSaveOption, type DefaultOption, type OptionInput } from '@/hooks/useOptions';
 
 export default function OptionScreen() {
   const { id } = useLocalSearchParams<{ id: string }>();
   const isNew = id === 'new';
-  const router = useRouter();
   const { can } = useCurrentScheme();
-  const { width } = useWindowDimensions();
   const { data: option, isLoading, error } = useOption(isNew ? undefined : id);
   const { data: funds } = useFunds();
-  const save = useSaveOption();
-  const editable = can('options:edit');
-  const [edit, setEdit] = useState<{ name: string; description: string; points: EditablePoint[] } | null>(null);
-  const form = useMemo(
-    () => edit ?? (option ? { name: option.name, description: option.description, points: option.glidePath } : isNew && funds?.funds[0] ? { name: '', description: '', points: [{ yearsToRetirement: 0, weights: { [funds.funds[0].id]: 1 } }] } : null),
-    [edit, option, isNew, funds],
-  );
 
   if (isLoading || !funds) return <Loading />;
   if (error) return <Screen title="Option"><Notice tone="error">{error.message}</Notice></Screen>;
-  if (!form) return <Loading />;
+  if (!isNew && !option) return <Loading />;
+  if (!can('options:edit')) return <OptionView option={option!} funds={funds.funds} />;
+  const start: OptionInput = option
+    ? { name: option.name, description: option.description, glidePath: option.glidePath }
+    : { name: '', description: '', glidePath: funds.funds[0] ? [{ yearsToRetirement: 0, weights: { [funds.funds[0].id]: 1 } }] : [] };
+  return <OptionForm key={option?.id ?? 'new'} id={isNew ? undefined : id} start={start} funds={funds.funds} />;
+}
+
+function OptionView({ option, funds }: { option: DefaultOption; funds: { id: string; name: string }[] }) {
+  const sorted = [...option.glidePath].sort((a, b) => b.yearsToRetirement - a.yearsToRetirement);
+  return (
+    <Screen title={option.name} subtitle={option.description}>
+      <Card>
+        <GlidePathChart funds={funds} glidePath={option.glidePath} title="Fund mix from 40 years to retirement" />
+      </Card>
+      <Card title="Points">
+        <DataTable
+          label="Glide path points"
+          rows={sorted}
+          rowKey={(p) => String(p.yearsToRetirement)}
+          columns={[
+            { key: 'y', title: 'Years to retirement', width: 110, align: 'right', render: (p) => String(p.yearsToRetirement) },
+            ...funds.map((f) => ({ key: f.id, title: f.name, width: 120, align: 'right' as const, render: (p: EditablePoint) => percent(p.weights[f.id] ?? 0, 'share') })),
+          ]}
+        />
+      </Card>
+    </Screen>
+  );
+}
+
+/** A new or existing option as a form, checked by the API's own schema (schemas/options.ts). */
+function OptionForm({ id, start, funds }: { id?: string; start: OptionInput; funds: { id: string; name: string }[] }) {
+  const router = useRouter();
+  const { width } = useWindowDimensions();
+  const save = useSaveOption();
+  const { control, handleSubmit, setError, reset, formState } = useForm<OptionBodyInput, unknown, OptionInput>({ resolver: zodResolver(OptionBody), defaultValues: start, mode: 'onTouched' });
+  const points = useWatch({ control, name: 'glidePath' });
+  const name = useWatch({ control, name: 'name' });
   const wide = width >= WIDE_BREAKPOINT;
-  const sorted = [...form.points].sort((a, b) => b.yearsToRetirement - a.yearsToRetirement);
-  const pathIssues = save.error instanceof ApiError ? save.error.issues.filter((i) => i.path.startsWith('glidePath')) : [];
+  const pathErrors = formState.errors.glidePath;
+  const pointErrors = useMemo(
+    () => (points ?? []).map((_, k) => ({ yearsToRetirement: pathErrors?.[k]?.yearsToRetirement?.message, weights: (pathErrors?.[k]?.weights as { message?: string } | undefined)?.message })),
+    [points, pathErrors],
+  );
+  const elsewhere = save.error instanceof ApiError ? save.error.issues.filter((i) => i.path.startsWith('glidePath') && !/^glidePath\.\d+\.(yearsToRetirement|weights)/.test(i.path)) : [];
 
-  const submit = () =>
+  const submit = handleSubmit((input) =>
     save.mutate(
-      { id: isNew ? undefined : id, input: { name: form.name, description: form.description, glidePath: form.points } },
-      { onSuccess: (o) => (setEdit(null), isNew ? router.replace(`/options/${o.id}`) : undefined) },
-    );
-
-  const chart = <GlidePathChart funds={funds.funds} glidePath={form.points} title="Fund mix from 40 years to retirement" />;
-
-  if (!editable) {
-    return (
-      <Screen title={option?.name ?? 'Option'} subtitle={option?.description}>
-        <Card>{chart}</Card>
-        <Card title="Points">
-          <DataTable
-            label="Glide path points"
-            rows={sorted}
-            rowKey={(p) => String(p.yearsToRetirement)}
-            columns={[
-              { key: 'y', title: 'Years to retirement', width: 110, align: 'right', render: (p) => String(p.yearsToRetirement) },
-              ...funds.funds.map((f) => ({ key: f.id, title: f.name, width: 120, align: 'right' as const, render: (p: EditablePoint) => percent(p.weights[f.id] ?? 0, 'share') })),
-            ]}
-          />
-        </Card>
-      </Screen>
-    );
-  }
+      { id, input },
+      {
+        onSuccess: (o) => (reset({ name: o.name, description: o.description, glidePath: o.glidePath }), id ? undefined : router.replace(`/options/${o.id}`)),
+        onError: (e) => void showServerIssues(e, setError, (path) => /^(name|description|glidePath\.\d+\.(yearsToRetirement|weights))/.test(path)),
+      },
+    ),
+  );
 
   return (
-    <Screen title={isNew ? 'New default option' : `Edit ${option?.name ?? ''}`}>
+    <Screen title={id ? `Edit ${start.name}` : 'New default option'}>
       {save.error && !(save.error instanceof ApiError && save.error.status === 400) ? <Notice tone="error">{save.error.message}</Notice> : null}
-      {save.isSuccess && !edit ? <Notice tone="success">Saved.</Notice> : null}
+      {save.isSuccess && !formState.isDirty ? <Notice tone="success">Saved.</Notice> : null}
       <View style={{ flexDirection: wide ? 'row' : 'column', gap: space.lg, alignItems: 'flex-start' }}>
         <View style={{ flex: 1, gap: space.lg, alignSelf: 'stretch' }}>
           <Card>
-            <Field label="Name" value={form.name} onChangeText={(v) => setEdit({ ...form, name: v })} error={fieldError(save.error, 'name')} />
-            <Field label="Description" value={form.description} onChangeText={(v) => setEdit({ ...form, description: v })} error={fieldError(save.error, 'description')} multiline style={{ minHeight: 80, paddingTop: space.sm }} />
+            <TextField control={control} name="name" label="Name" />
+            <TextField control={control} name="description" label="Description" multiline style={{ minHeight: 80, paddingTop: space.sm }} />
           </Card>
           <Card title="Glide path">
-            <GlidePathEditor funds={funds.funds} points={form.points} onChange={(points) => setEdit({ ...form, points })} />
-            {pathIssues.map((i, k) => (
+            <Controller control={control} name="glidePath" render={({ field }) => <GlidePathEditor funds={funds} points={field.value} onChange={field.onChange} errors={pointErrors} />} />
+            {pathErrors?.message || pathErrors?.root?.message ? <Text role="alert" style={styles.error}>{pathErrors?.message ?? pathErrors?.root?.message}</Text> : null}
+            {elsewhere.map((i, k) => (
               <Text key={k} role="alert" style={[styles.error]}>
                 {i.path}: {i.message}
               </Text>
@@ -82,9 +102,11 @@ export default function OptionScreen() {
           </Card>
         </View>
         <View style={{ flex: 1, gap: space.lg, alignSelf: 'stretch' }}>
-          <Card title="Preview">{chart}</Card>
+          <Card title="Preview">
+            <GlidePathChart funds={funds} glidePath={points ?? []} title="Fund mix from 40 years to retirement" />
+          </Card>
           <View style={styles.row}>
-            <Button label={isNew ? 'Create option' : 'Save option'} onPress={submit} busy={save.isPending} disabled={!form.name.trim()} testID="save-option" />
+            <Button label={id ? 'Save option' : 'Create option'} onPress={submit} busy={save.isPending} disabled={!String(name ?? '').trim()} testID="save-option" />
             <Button label="Back to options" kind="secondary" onPress={() => router.push('/options')} />
           </View>
         </View>
