@@ -142,7 +142,7 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
       </Card>
 
       <Card>
-        <ChanceChart rows={ranked} width={Math.max(0, (columns === 1 ? width : chartWidth) - 2 * space.lg - 2)} styleOf={styleOf} />
+        <ChanceChart rows={ranked} width={Math.max(0, width - 2 * space.lg - 2)} styleOf={styleOf} />
       </Card>
 
       {stressedRanked && stress ? (
