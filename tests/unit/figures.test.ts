@@ -26,6 +26,7 @@ import {
   wholeTicks,
 } from '../../figures';
 import { certaintyEquivalentPot } from '../../simulation';
+import { numberCell } from '../../server/uploads';
 import { sampleVariance } from '../../simulation/statistics';
 
 describe('money, one rule per context', () => {
@@ -148,6 +149,13 @@ describe('percentages typed at the edge', () => {
         expect(percentInputText(f)).toBe(String(Number(text)));
       }),
     );
+  });
+
+  it('reads percentages in uploaded CSV cells the same way', () => {
+    expect(numberCell('0.45%', { percent: true })).toBe(0.0045);
+    expect(numberCell('8.3 %', { percent: true })).toBe(0.083);
+    expect(numberCell('0.083', { percent: true })).toBe(0.083);
+    expect(numberCell('1e2%', { percent: true })).toMatch(/not a percentage/);
   });
 
   it('reads plain numbers with thousands separators', () => {
