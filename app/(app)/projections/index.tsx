@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { Pressable, Text, View } from 'react-native';
 import { useRouter } from 'expo-router';
-import { Controller, useForm, useWatch } from 'react-hook-form';
+import { Controller, useController, useForm, useWatch, type Control } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
@@ -107,7 +107,6 @@ function RunForm({ schemeId, choices: data }: { schemeId: string; choices: RunCh
   const stress = useWatch({ control, name: 'stress' });
   const set = data.assumptionSets.find((s) => s.id === setId);
   const setFunds = useMemo(() => (set ? set.fundOrder.map((id) => data.funds.find((f) => f.id === id)).filter((f): f is { id: string; name: string } => !!f) : []), [set, data]);
-  const toggle = (list: string[] | undefined, id: string) => ((list ?? []).includes(id) ? (list ?? []).filter((x) => x !== id) : [...(list ?? []), id]);
   const [elsewhere, setElsewhere] = useState<{ path: string; message: string }[]>([]);
   const submit = handleSubmit((body) => {
     setElsewhere([]);
@@ -120,53 +119,14 @@ function RunForm({ schemeId, choices: data }: { schemeId: string; choices: RunCh
   return (
     <Card title="New comparison">
       <Text style={styles.label}>Assumption set</Text>
-      <Controller
-        control={control}
-        name="assumptionSetId"
-        render={({ field, fieldState }) => (
-          <>
-            <View style={styles.row}>
-              {data.assumptionSets.map((s) => (
-                <Chip key={s.id} label={`Version ${s.version} · ${date(s.setAt)}`} note={s.status === 'draft' ? 'DRAFT' : undefined} selected={s.id === field.value} onPress={() => field.onChange(s.id)} />
-              ))}
-            </View>
-            {fieldState.error ? <Text style={styles.error}>Assumption set: {fieldState.error.message}</Text> : null}
-          </>
-        )}
-      />
+      <ChipField control={control} name="assumptionSetId" what="Assumption set" single choices={data.assumptionSets.map((x) => ({ id: x.id, label: `Version ${x.version} · ${date(x.setAt)}`, note: x.status === 'draft' ? 'DRAFT' : undefined }))} />
       {set?.status === 'draft' ? <Notice tone="warning">These assumptions are a draft: every result of this run will be marked as based on draft assumptions.</Notice> : null}
 
       <Text style={styles.label}>Default options to compare</Text>
-      <Controller
-        control={control}
-        name="optionIds"
-        render={({ field, fieldState }) => (
-          <>
-            <View style={styles.row}>
-              {data.options.map((o) => (
-                <Chip key={o.id} label={o.name} selected={(field.value ?? []).includes(o.id)} onPress={() => field.onChange(toggle(field.value, o.id))} />
-              ))}
-            </View>
-            {fieldState.error ? <Text style={styles.error}>Options: {fieldState.error.message ?? fieldState.error.root?.message}</Text> : null}
-          </>
-        )}
-      />
+      <ChipField control={control} name="optionIds" what="Options" choices={data.options.map((o) => ({ id: o.id, label: o.name }))} />
 
       <Text style={styles.label}>Illustrative members</Text>
-      <Controller
-        control={control}
-        name="memberIds"
-        render={({ field, fieldState }) => (
-          <>
-            <View style={styles.row}>
-              {data.members.map((m) => (
-                <Chip key={m.id} label={`${m.label} (${m.age}→${m.retirementAge})`} selected={(field.value ?? []).includes(m.id)} onPress={() => field.onChange(toggle(field.value, m.id))} />
-              ))}
-            </View>
-            {fieldState.error ? <Text style={styles.error}>Members: {fieldState.error.message ?? fieldState.error.root?.message}</Text> : null}
-          </>
-        )}
-      />
+      <ChipField control={control} name="memberIds" what="Members" choices={data.members.map((m) => ({ id: m.id, label: `${m.label} (${m.age}→${m.retirementAge})` }))} />
 
       <Text style={styles.label}>Number of paths</Text>
       <Controller
@@ -202,20 +162,7 @@ function RunForm({ schemeId, choices: data }: { schemeId: string; choices: RunCh
       {stress ? (
         <View style={{ gap: space.sm }}>
           <Text style={styles.label}>Fund that falls</Text>
-          <Controller
-            control={control}
-            name="stress.fundId"
-            render={({ field, fieldState }) => (
-              <>
-                <View style={styles.row}>
-                  {setFunds.map((f) => (
-                    <Chip key={f.id} label={f.name} selected={field.value === f.id} onPress={() => field.onChange(f.id)} />
-                  ))}
-                </View>
-                {fieldState.error ? <Text style={styles.error}>Fund: {fieldState.error.message}</Text> : null}
-              </>
-            )}
-          />
+          <ChipField control={control} name="stress.fundId" what="Fund" single choices={setFunds.map((f) => ({ id: f.id, label: f.name }))} />
           <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.md }}>
             <View style={{ minWidth: 160, flexGrow: 1 }}>
               <PercentField control={control} name="stress.fall" label="Fall (%)" />
@@ -231,5 +178,23 @@ function RunForm({ schemeId, choices: data }: { schemeId: string; choices: RunCh
       {start.error && !(start.error instanceof ApiError && start.error.status === 400) ? <Notice tone="error">{start.error.message}</Notice> : null}
       <Button label="Start comparison" onPress={submit} busy={start.isPending} />
     </Card>
+  );
+}
+
+/** Chips bound to a field of the run form: one choice (`single`) or several, with the field's message below. */
+function ChipField({ control, name, what, choices, single }: { control: Control<RunRequest>; name: 'assumptionSetId' | 'optionIds' | 'memberIds' | 'stress.fundId'; what: string; choices: { id: string; label: string; note?: string }[]; single?: boolean }) {
+  const { field, fieldState } = useController({ control, name });
+  const chosen: string[] = single ? [field.value as string] : ((field.value as string[] | undefined) ?? []);
+  const pick = (id: string) => field.onChange(single ? id : chosen.includes(id) ? chosen.filter((x) => x !== id) : [...chosen, id]);
+  const message = fieldState.error?.message ?? fieldState.error?.root?.message;
+  return (
+    <>
+      <View style={styles.row}>
+        {choices.map((c) => (
+          <Chip key={c.id} label={c.label} note={c.note} selected={chosen.includes(c.id)} onPress={() => pick(c.id)} />
+        ))}
+      </View>
+      {message ? <Text style={styles.error}>{`${what}: ${message}`}</Text> : null}
+    </>
   );
 }
