@@ -14,12 +14,15 @@ export type Crossings = { status: 'identical' | 'none' | 'crossings'; lambdas: n
 
 /**
  * Reads an engine break-even entry: today's form gives one `lambda` with a status; a list of
- * crossings (`lambdas`) is accepted as well, so a later engine that reports every crossing
- * needs no change here.
+ * crossings (`crossings: { lambda }[]`, or plain `lambdas`) is accepted as well, so an engine
+ * that reports every crossing needs no change here.
  */
-export function crossingsOf(b: { status: string; lambda?: number | null; lambdas?: readonly number[] | null }, range: readonly [number, number] = BOARD_LAMBDA_RANGE): Crossings {
+export function crossingsOf(
+  b: { status: string; lambda?: number | null; lambdas?: readonly number[] | null; crossings?: readonly { lambda: number }[] | null },
+  range: readonly [number, number] = BOARD_LAMBDA_RANGE,
+): Crossings {
   if (b.status === 'identical') return { status: 'identical', lambdas: [] };
-  const all = b.lambdas ?? (b.lambda !== null && b.lambda !== undefined ? [b.lambda] : []);
+  const all = b.crossings?.map((c) => c.lambda) ?? b.lambdas ?? (b.lambda !== null && b.lambda !== undefined ? [b.lambda] : []);
   const lambdas = [...all].filter((l) => Number.isFinite(l) && l >= range[0] && l <= range[1]).sort((x, y) => x - y);
   return lambdas.length ? { status: 'crossings', lambdas } : { status: 'none', lambdas: [] };
 }

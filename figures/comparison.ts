@@ -1,6 +1,6 @@
 import { SHORTFALL_LEVEL } from '../simulation';
 import { money, moneyChange } from './money';
-import { lambda as lambdaText, percent, percentagePoints } from './numbers';
+import { count, lambda as lambdaText, percent, percentagePoints } from './numbers';
 import type { OptionDifference, RankedOption } from './ranking';
 
 /**
@@ -78,7 +78,8 @@ export function comparisonCells(r: RankedOption, currency: string): Record<Compa
  * error (when the run provides its standard error) is said to be so.
  */
 export function differenceSentence(d: OptionDifference, baselineName: string, currency: string): string {
-  const note = (x: { tooCloseToCall: boolean | null }) => (x.tooCloseToCall ? ' (within sampling error)' : '');
+  const note = (x: OptionDifference['ce']) =>
+    x.tooCloseToCall ? ` (within sampling error${x.pathsToSeparate ? `; about ${count(x.pathsToSeparate)} paths would separate it` : ''})` : '';
   const parts = [
     `certainty-equivalent pot ${moneyChange(d.ce.value, currency)}${note(d.ce)}`,
     `median pot ${moneyChange(d.median.value, currency)}${note(d.median)}`,

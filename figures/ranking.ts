@@ -95,21 +95,23 @@ export function rankAt(variant: StoredVariant, scenario: ScenarioInput, memberId
 // ---- Differences to a baseline option --------------------------------------------------
 
 /**
- * How many standard errors a difference must exceed before one option is said to be ahead:
- * 1.96, the two-sided 95% point of the normal distribution (any statistics handbook).
+ * How many standard errors a difference must reach before one option is said to be ahead: 2,
+ * the two-sided 95% normal point (1.96) rounded up (common practice, no source), the rule the
+ * engine's paired comparison uses too.
  */
-export const SEPARATION_Z = 1.96;
+export const SEPARATION_Z = 2;
 
 /**
  * A difference between an option and the baseline. `standardError` is the Monte Carlo standard
  * error of the difference itself (paired, since every option sees the same paths); it is null
- * until the run's stored result provides it, and `tooCloseToCall` is then null too.
+ * until the run's stored result provides it, and `tooCloseToCall` is then null too. The engine's
+ * own paired differences ({ value, standardError, tooCloseToCall, pathsToSeparate }) fit as they are.
  */
-export type Difference = { value: number; standardError: number | null; tooCloseToCall: boolean | null };
+export type Difference = { value: number; standardError: number | null; tooCloseToCall: boolean | null; pathsToSeparate?: number | null };
 
 export function difference(value: number, standardError: number | null = null): Difference {
   const se = standardError !== null && Number.isFinite(standardError) ? standardError : null;
-  return { value, standardError: se, tooCloseToCall: se === null ? null : Math.abs(value) <= SEPARATION_Z * se };
+  return { value, standardError: se, tooCloseToCall: se === null ? null : Math.abs(value) < SEPARATION_Z * se };
 }
 
 export type OptionDifference = {
@@ -123,11 +125,19 @@ export type OptionDifference = {
   chance: Difference;
 };
 
-/** Paired standard errors of differences, when the stored result has them (keyed by figure). */
-export type PairedErrors = (optionId: string, baselineId: string, figure: 'ce' | 'median' | 'p5' | 'chance') => number | null;
+/**
+ * Paired figures of differences (option − baseline) when the run provides them: a standard
+ * error, or the engine's whole difference with its own too-close-to-call judgement.
+ */
+export type PairedErrors = (optionId: string, baselineId: string, figure: 'ce' | 'median' | 'p5' | 'chance') => number | Difference | null;
+
+function paired(value: number, p: number | Difference | null): Difference {
+  if (p === null || typeof p === 'number') return difference(value, p);
+  return { ...p, value };
+}
 
 /** Every other option compared with the baseline (by default the top-ranked one). */
-export function differencesToBaseline(ranked: RankedOption[], baselineId: string = ranked[0]?.optionId, paired: PairedErrors = () => null): OptionDifference[] {
+export function differencesToBaseline(ranked: RankedOption[], baselineId: string = ranked[0]?.optionId, errors: PairedErrors = () => null): OptionDifference[] {
   const base = ranked.find((r) => r.optionId === baselineId);
   if (!base) return [];
   const at = (r: RankedOption) => r.pair.atRetirement;
@@ -136,9 +146,9 @@ export function differencesToBaseline(ranked: RankedOption[], baselineId: string
     .map((r) => ({
       optionId: r.optionId,
       name: r.name,
-      ce: difference(r.ce.pot - base.ce.pot, paired(r.optionId, baselineId, 'ce')),
-      median: difference(at(r).percentiles.real.p50 - at(base).percentiles.real.p50, paired(r.optionId, baselineId, 'median')),
-      p5: difference(at(r).percentiles.real.p5 - at(base).percentiles.real.p5, paired(r.optionId, baselineId, 'p5')),
-      chance: difference(at(r).probabilityReachingTarget - at(base).probabilityReachingTarget, paired(r.optionId, baselineId, 'chance')),
+      ce: paired(r.ce.pot - base.ce.pot, errors(r.optionId, baselineId, 'ce')),
+      median: paired(at(r).percentiles.real.p50 - at(base).percentiles.real.p50, errors(r.optionId, baselineId, 'median')),
+      p5: paired(at(r).percentiles.real.p5 - at(base).percentiles.real.p5, errors(r.optionId, baselineId, 'p5')),
+      chance: paired(at(r).probabilityReachingTarget - at(base).probabilityReachingTarget, errors(r.optionId, baselineId, 'chance')),
     }));
 }

@@ -9,6 +9,8 @@ import {
   date,
   dateTime,
   difference,
+  differenceSentence,
+  differencesToBaseline,
   lambda,
   money,
   moneyAxis,
@@ -24,6 +26,7 @@ import {
   SEPARATION_Z,
   valueAxis,
   wholeTicks,
+  type RankedOption,
 } from '../../figures';
 import { certaintyEquivalentPot } from '../../simulation';
 import { numberCell } from '../../server/uploads';
@@ -215,11 +218,25 @@ describe('certainty-equivalent standard error', () => {
 });
 
 describe('differences to the baseline', () => {
-  it('is too close to call only when within 1.96 standard errors, and unknown without one', () => {
-    expect(SEPARATION_Z).toBe(1.96);
+  it('is too close to call only when within two standard errors, and unknown without one', () => {
+    expect(SEPARATION_Z).toBe(2);
     expect(difference(-3000)).toEqual({ value: -3000, standardError: null, tooCloseToCall: null });
     expect(difference(-3000, 1000).tooCloseToCall).toBe(false);
-    expect(difference(-1500, 1000).tooCloseToCall).toBe(true);
+    expect(difference(-1900, 1000).tooCloseToCall).toBe(true);
+  });
+
+  it('takes the engine’s paired differences as they are, and says when one is inside the noise', () => {
+    const pot = (rank: number, name: string, ce: number, p50: number, p5: number, chance: number) =>
+      ({ rank, optionId: name, name, ce: { pot: ce, standardError: 1, annualReturn: 0.02, basis: 'run' }, pair: { atRetirement: { percentiles: { real: { p50, p5 } }, probabilityReachingTarget: chance } } }) as unknown as RankedOption;
+    const ranked = [pot(1, 'Steady', 150_000, 190_000, 99_000, 0.08), pot(2, 'Spread', 144_000, 212_000, 87_000, 0.2)];
+    const engine = { value: 0, standardError: 4_000, tooCloseToCall: true, pathsToSeparate: 12_000 };
+    const [d] = differencesToBaseline(ranked, 'Steady', (_o, _b, figure) => (figure === 'ce' ? engine : figure === 'median' ? 9_000 : null));
+    expect(d.ce).toEqual({ ...engine, value: -6_000 });
+    expect(d.median).toEqual({ value: 22_000, standardError: 9_000, tooCloseToCall: false });
+    expect(d.chance.tooCloseToCall).toBeNull();
+    expect(differenceSentence(d, 'Steady', 'GBP')).toBe(
+      'Spread against Steady: certainty-equivalent pot −£6,000 (within sampling error; about 12,000 paths would separate it), median pot +£22,000, 5th percentile pot −£12,000, chance of reaching the income target +12 percentage points.',
+    );
   });
 });
 
@@ -234,6 +251,7 @@ describe('break-even sentences', () => {
     expect(crossingsOf({ status: 'found', lambdas: [8, 0.5, 99] })).toEqual({ status: 'crossings', lambdas: [0.5, 8] });
     expect(crossingsOf({ status: 'none-in-range', lambda: null })).toEqual({ status: 'none', lambdas: [] });
     expect(crossingsOf({ status: 'identical', lambda: null }).status).toBe('identical');
+    expect(crossingsOf({ status: 'found', lambda: 0.5, crossings: [{ lambda: 0.5 }, { lambda: 7 }] }).lambdas).toEqual([0.5, 7]);
   });
 
   it('words no crossing, one crossing and several crossings in one way', () => {
