@@ -1,15 +1,16 @@
 import { useMemo, useState } from 'react';
-import { Pressable, Text, View, useWindowDimensions } from 'react-native';
+import { Text, View, useWindowDimensions } from 'react-native';
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { CautionNotice } from '@/components/CautionNotice';
 import { ChanceChart } from '@/components/ChanceChart';
+import { Chip } from '@/components/Chip';
 import { ComparisonTable } from '@/components/ComparisonTable';
 import { FanChart } from '@/components/FanChart';
 import { LambdaControl } from '@/components/LambdaControl';
 import { ProgressBar } from '@/components/ProgressBar';
 import { breakEvenSentence, count, crossingsOf, differenceSentence, differencesToBaseline, lambda as lambdaText, money, percent, plural, rankAt, sampleOf, separationSentence } from '@/figures';
-import { colors, MIN_TOUCH, optionStyle, radius, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
+import { colors, optionStyle, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useRerun, useRun, type RunDetail, type StoredVariant } from '@/hooks/useRuns';
 
@@ -99,7 +100,7 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
       <Card title="Illustrative member">
         <View style={styles.row}>
           {run.members.map((m) => (
-            <Toggle key={m.id} label={m.label} selected={m.id === memberId} onPress={() => setMemberId(m.id)} />
+            <Chip kind="toggle" key={m.id} label={m.label} selected={m.id === memberId} onPress={() => setMemberId(m.id)} />
           ))}
         </View>
         {member ? (
@@ -163,8 +164,8 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
       <View style={[styles.row, { justifyContent: 'space-between' }]}>
         <Text style={[type.title, { color: colors.ink }]}>Pot by age</Text>
         <View style={styles.row}>
-          <Toggle label="Today's money" selected={!nominal} onPress={() => setNominal(false)} />
-          <Toggle label="Money of the day" selected={nominal} onPress={() => setNominal(true)} />
+          <Chip kind="toggle" label="Today's money" selected={!nominal} onPress={() => setNominal(false)} />
+          <Chip kind="toggle" label="Money of the day" selected={nominal} onPress={() => setNominal(true)} />
         </View>
       </View>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.lg }}>
@@ -196,26 +197,5 @@ function VariantNote({ variant }: { variant: StoredVariant }) {
     <Text style={styles.muted}>
       Inflation {percent(variant.result.inflation, 'rate')} a year; {count(variant.result.paths)} simulated paths; seed {variant.result.seed}.
     </Text>
-  );
-}
-
-function Toggle({ label, selected, onPress }: { label: string; selected: boolean; onPress: () => void }) {
-  return (
-    <Pressable
-      accessibilityRole="button"
-      accessibilityState={{ selected }}
-      onPress={onPress}
-      style={{
-        minHeight: MIN_TOUCH,
-        paddingHorizontal: space.md,
-        justifyContent: 'center',
-        borderRadius: radius.md,
-        borderWidth: 1,
-        borderColor: colors.primary,
-        backgroundColor: selected ? colors.primary : colors.surface,
-      }}
-    >
-      <Text style={[type.label, { color: selected ? colors.onPrimary : colors.primary }]}>{label}</Text>
-    </Pressable>
   );
 }

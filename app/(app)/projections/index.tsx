@@ -5,10 +5,11 @@ import { Controller, useController, useForm, useWatch, type Control } from 'reac
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
+import { Chip } from '@/components/Chip';
 import { NumberField, PercentField, showServerIssues } from '@/components/FormFields';
 import { BOARD_LAMBDA } from '@/constants/riskAversion';
 import { RUN_PATHS, RunBody } from '@/schemas/runs';
-import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
+import { colors, MIN_TOUCH, space, type } from '@/constants/theme';
 import { ApiError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useRunChoices, useRuns, useStartRun, type RunChoices, type RunRequest, type RunSummary } from '@/hooks/useRuns';
@@ -49,32 +50,6 @@ function RunRow({ run }: { run: RunSummary }) {
       <Text style={styles.muted}>
         {when} · seed {run.seed} · λ {lambdaText(run.riskAversion)} · assumptions v{run.assumptionSet.version}
         {run.assumptionsDraft ? ' (DRAFT)' : ''} · {run.status === 'running' ? `running ${percent(run.progress, 'chance')}` : run.status}
-      </Text>
-    </Pressable>
-  );
-}
-
-function Chip({ label, selected, onPress, note }: { label: string; selected: boolean; onPress: () => void; note?: string }) {
-  return (
-    <Pressable
-      accessibilityRole="checkbox"
-      accessibilityState={{ checked: selected }}
-      accessibilityLabel={note ? `${label} (${note})` : label}
-      onPress={onPress}
-      style={{
-        minHeight: MIN_TOUCH,
-        paddingHorizontal: space.md,
-        justifyContent: 'center',
-        borderRadius: radius.md,
-        borderWidth: 1,
-        borderColor: selected ? colors.primary : colors.inputBorder,
-        backgroundColor: selected ? colors.primaryTint : colors.surface,
-      }}
-    >
-      <Text style={[type.label, { color: selected ? colors.primary : colors.ink }]}>
-        {selected ? '✓ ' : ''}
-        {label}
-        {note ? <Text style={{ color: colors.danger }}> {note}</Text> : null}
       </Text>
     </Pressable>
   );
