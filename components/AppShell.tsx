@@ -59,7 +59,7 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
 
   const switcher = schemes.length > 1 && (
     <View style={{ gap: space.xs }} testID="scheme-switcher">
-      <Text style={[type.caption, { color: wide ? '#CFE0DD' : colors.mutedInk }]}>Scheme</Text>
+      <Text style={[type.caption, { color: wide ? colors.onPrimaryMuted : colors.mutedInk }]}>Scheme</Text>
       {schemes.map((s) => (
         <Pressable
           key={s.id}
@@ -82,7 +82,7 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
           {scheme ? (
             <View>
               <Text style={[type.label, { color: colors.paper }]}>{scheme.name}</Text>
-              <Text style={[type.caption, { color: '#CFE0DD' }]}>{ROLE_LABELS[scheme.role]}</Text>
+              <Text style={[type.caption, { color: colors.onPrimaryMuted }]}>{ROLE_LABELS[scheme.role]}</Text>
             </View>
           ) : null}
           <View style={{ gap: 2 }}>
@@ -92,7 +92,7 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
           </View>
           {switcher}
           <View style={{ flex: 1 }} />
-          <Text style={[type.caption, { color: '#CFE0DD' }]}>Signed in as {userName}</Text>
+          <Text style={[type.caption, { color: colors.onPrimaryMuted }]}>Signed in as {userName}</Text>
           <Pressable accessibilityRole="button" onPress={onSignOut} style={{ flexDirection: 'row', alignItems: 'center', gap: space.sm, minHeight: MIN_TOUCH }}>
             <Icon name="signout" color={colors.paper} />
             <Text style={[type.label, { color: colors.paper }]}>Sign out</Text>
@@ -127,7 +127,7 @@ export function AppShell({ children, scheme, schemes, onSchemeChange, userName, 
       ) : null}
       <View style={{ flex: 1 }}>{children}</View>
       {moreOpen ? (
-        <View role="navigation" aria-label="More" testID="more-menu" style={{ position: 'absolute', left: 0, right: 0, bottom: 57, backgroundColor: colors.surface, borderTopWidth: 1, borderColor: colors.rule, paddingVertical: space.sm, shadowColor: '#000', shadowOpacity: 0.12, shadowRadius: 12 }}>
+        <View role="navigation" aria-label="More" testID="more-menu" style={{ position: 'absolute', left: 0, right: 0, bottom: 57, backgroundColor: colors.surface, borderTopWidth: 1, borderColor: colors.rule, paddingVertical: space.sm, shadowColor: colors.shadow, shadowOpacity: 0.12, shadowRadius: 12 }}>
           {moreItems.map((item) => (
             <MenuRow key={item.href} item={item} active={isActive(pathname, item.href)} tone="plain" onPress={() => setMoreOpen(false)} />
           ))}

@@ -1,6 +1,6 @@
 import { Text, View } from 'react-native';
 import { colors, space, type } from '@/constants/theme';
-import { day } from './format';
+import { date } from '@/figures';
 import { Button, Notice, styles } from './ui';
 
 type Approval = { userId: string | null; name: string; at: string };
@@ -29,7 +29,7 @@ export function ApprovalPanel(props: {
       {approvals.length ? (
         approvals.map((a, i) => (
           <Text key={i} style={styles.body}>
-            ✓ Approved by <Text style={{ fontFamily: type.label.fontFamily }}>{a.name}</Text> on {day(a.at)}
+            ✓ Approved by <Text style={{ fontFamily: type.label.fontFamily }}>{a.name}</Text> on {date(a.at)}
           </Text>
         ))
       ) : (

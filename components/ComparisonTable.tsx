@@ -1,11 +1,22 @@
 import { ScrollView, Text, View } from 'react-native';
-import { colors, space, type } from '@/constants/theme';
-import { money, pct, type OptionFigures } from './projectionFigures';
+import { colors, space, type, type OptionStyle } from '@/constants/theme';
+import { comparisonCells, comparisonColumns, pinFirst, type ComparisonKey, type RankedOption } from '@/figures';
+import { OptionMark } from './OptionMark';
 
 // theme's `figure` is declared readonly; React Native's style type wants a mutable array.
 const FIGURE = { ...type.figure, fontVariant: ['tabular-nums' as const] as 'tabular-nums'[] };
 
-type Col = { label: string; width: number; value: (r: OptionFigures) => string; se?: (r: OptionFigures) => string | null };
+/** Column widths on screen; headings, order and every figure come from figures/. */
+const WIDTH: Record<ComparisonKey, number> = {
+  certaintyEquivalentPot: 150,
+  certaintyEquivalentReturn: 120,
+  medianReal: 120,
+  p5Real: 120,
+  probabilityReachingTarget: 130,
+  expectedShortfallReal: 140,
+  meanReal: 120,
+  medianRealIncome: 110,
+};
 
 /**
  * Options ranked by certainty-equivalent pot at the chosen λ. Money is real (today's money)
@@ -13,68 +24,61 @@ type Col = { label: string; width: number; value: (r: OptionFigures) => string; 
  * put while the figures scroll sideways on a phone. The scheme's current default (the
  * baseline), when it is among the options, is pinned first and marked, with its rank.
  */
-export function ComparisonTable({ rows: ranked, currency, lambda, colorOf, baselineId = null }: { rows: OptionFigures[]; currency: string; lambda: number; colorOf: (optionId: string) => string; baselineId?: string | null }) {
-  const rankOf = new Map(ranked.map((r, i) => [r.optionId, i + 1]));
+export function ComparisonTable({
+  rows: ranked,
+  currency,
+  lambda,
+  styleOf,
+  baselineId = null,
+  testID = 'comparison-table',
+}: {
+  rows: RankedOption[];
+  currency: string;
+  lambda: number;
+  styleOf: (optionId: string) => OptionStyle;
+  baselineId?: string | null;
+  testID?: string;
+}) {
   const rows = pinFirst(ranked, baselineId);
-  const m = (v: number) => money(v, currency);
-  const se = (v: number) => (Number.isFinite(v) ? `± ${m(v)}` : null);
-  const cols: Col[] = [
-    { label: `Certainty-equivalent pot (λ = ${lambda})`, width: 150, value: (r) => m(r.cePot), se: (r) => se(r.ceStandardError) },
-    { label: 'CE annual real return', width: 110, value: (r) => pct(r.ceAnnualReturn, 2) },
-    { label: 'Median pot', width: 120, value: (r) => m(r.pair.atRetirement.percentiles.real.p50), se: (r) => se(r.pair.extraStandardErrors.p50Real) },
-    { label: '5th percentile pot', width: 120, value: (r) => m(r.pair.atRetirement.percentiles.real.p5), se: (r) => se(r.pair.extraStandardErrors.p5Real) },
-    {
-      label: 'Chance of reaching the income target',
-      width: 130,
-      value: (r) => pct(r.pair.atRetirement.probabilityReachingTarget, 0),
-      se: (r) => `± ${pct(r.pair.extraStandardErrors.probabilityReachingTarget, 1)}`,
-    },
-    { label: 'Expected shortfall (mean of worst 5%)', width: 140, value: (r) => m(r.pair.atRetirement.expectedShortfall.real) },
-    { label: 'Mean pot', width: 120, value: (r) => m(r.pair.atRetirement.mean.real), se: (r) => se(r.pair.atRetirement.standardError.real) },
-  ];
+  const tint = (optionId: string) => (optionId === baselineId ? colors.primaryTint : undefined);
+  const cols = comparisonColumns(lambda);
+  const cells = rows.map((r) => comparisonCells(r, currency));
   const rowH = 56;
   return (
-    <View style={{ flexDirection: 'row' }} testID="comparison-table" accessibilityLabel="Options ranked by certainty-equivalent pot">
-      <View style={{ width: 150, borderRightWidth: 1, borderColor: colors.rule }}>
-        <Header label="Rank and option" width={150} />
-        {rows.map((r) => {
-          const baseline = r.optionId === baselineId;
-          return (
-            <View
-              key={r.optionId}
-              style={{ height: rowH, flexDirection: 'row', alignItems: 'center', gap: space.xs, borderTopWidth: 1, borderColor: colors.rule, paddingRight: space.xs, backgroundColor: baseline ? colors.primaryTint : undefined }}
-              testID="ranked-option"
-            >
-              <View style={{ width: 10, height: 10, borderRadius: 5, backgroundColor: colorOf(r.optionId) }} />
-              <View style={{ flex: 1 }}>
-                <Text style={[type.label, { color: colors.ink }]} numberOfLines={2}>
-                  {rankOf.get(r.optionId)}. {r.name}
+    <View style={{ flexDirection: 'row' }} testID={testID} accessibilityLabel="Options ranked by certainty-equivalent pot">
+      <View style={{ width: 170, borderRightWidth: 1, borderColor: colors.rule }}>
+        <Header label="Rank and option" width={170} />
+        {rows.map((r) => (
+          <View key={r.optionId} style={{ height: rowH, flexDirection: 'row', alignItems: 'center', gap: space.xs, borderTopWidth: 1, borderColor: colors.rule, paddingRight: space.xs, backgroundColor: tint(r.optionId) }} testID="ranked-option">
+            <OptionMark style={styleOf(r.optionId)} size={12} />
+            <View style={{ flex: 1 }}>
+              <Text style={[type.label, { color: colors.ink }]} numberOfLines={2}>
+                {r.rank}. {r.name}
+              </Text>
+              {r.optionId === baselineId ? (
+                <Text style={[type.caption, { color: colors.primary }]} testID="baseline-mark">
+                  Current default · baseline
                 </Text>
-                {baseline ? (
-                  <Text style={[type.caption, { color: colors.primary }]} testID="baseline-mark">
-                    Current default · baseline
-                  </Text>
-                ) : null}
-              </View>
+              ) : null}
             </View>
-          );
-        })}
+          </View>
+        ))}
       </View>
       <ScrollView horizontal>
         <View>
           <View style={{ flexDirection: 'row' }}>
             {cols.map((c) => (
-              <Header key={c.label} label={c.label} width={c.width} right />
+              <Header key={c.key} label={c.label} width={WIDTH[c.key]} right />
             ))}
           </View>
-          {rows.map((r) => (
-            <View key={r.optionId} style={{ flexDirection: 'row', height: rowH, borderTopWidth: 1, borderColor: colors.rule, backgroundColor: r.optionId === baselineId ? colors.primaryTint : undefined }}>
+          {rows.map((r, i) => (
+            <View key={r.optionId} style={{ flexDirection: 'row', height: rowH, borderTopWidth: 1, borderColor: colors.rule, backgroundColor: tint(r.optionId) }}>
               {cols.map((c) => {
-                const s = c.se?.(r);
+                const cell = cells[i][c.key];
                 return (
-                  <View key={c.label} style={{ width: c.width, paddingHorizontal: space.sm, justifyContent: 'center', alignItems: 'flex-end' }}>
-                    <Text style={[FIGURE, { color: colors.ink, textAlign: 'right' }]}>{c.value(r)}</Text>
-                    {s ? <Text style={[type.caption, { color: colors.mutedInk, fontVariant: ['tabular-nums' as const] }]}>{s}</Text> : null}
+                  <View key={c.key} testID={`cell-${c.key}`} style={{ width: WIDTH[c.key], paddingHorizontal: space.sm, justifyContent: 'center', alignItems: 'flex-end' }}>
+                    <Text style={[FIGURE, { color: colors.ink, textAlign: 'right' }]}>{cell.text}</Text>
+                    {cell.standardError ? <Text style={[type.caption, { color: colors.mutedInk, fontVariant: ['tabular-nums' as const] }]}>{cell.standardError}</Text> : null}
                   </View>
                 );
               })}
@@ -84,12 +88,6 @@ export function ComparisonTable({ rows: ranked, currency, lambda, colorOf, basel
       </ScrollView>
     </View>
   );
-}
-
-/** The rows with the baseline's moved to the top (others keep their order). */
-export function pinFirst<T extends { optionId: string }>(rows: T[], baselineId: string | null): T[] {
-  const at = rows.findIndex((r) => r.optionId === baselineId);
-  return at < 0 ? rows : [rows[at], ...rows.slice(0, at), ...rows.slice(at + 1)];
 }
 
 function Header({ label, width, right }: { label: string; width: number; right?: boolean }) {

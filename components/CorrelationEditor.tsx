@@ -2,6 +2,7 @@ import { useMemo, useState } from 'react';
 import { ScrollView, Text, TextInput, View, type TextStyle } from 'react-native';
 import { checkCorrelationMatrix, type CorrelationProblem } from '@/simulation';
 import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
+import { decimal } from '@/figures';
 
 type Props = {
   /** Row and column names, in matrix order. */
@@ -91,11 +92,11 @@ export function CorrelationEditor({ names, matrix, onChange, highlight, testID }
                         onChangeText={(s) => edit(i, j, s)}
                         inputMode="decimal"
                         accessibilityLabel={`Correlation of ${names[i]} with ${names[j]}`}
-                        style={[figure, { minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: fault ? colors.danger : '#B9B2A7', borderRadius: radius.sm, paddingHorizontal: space.xs, backgroundColor: tint, color: colors.ink }]}
+                        style={[figure, { minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: fault ? colors.danger : colors.inputBorder, borderRadius: radius.sm, paddingHorizontal: space.xs, backgroundColor: tint, color: colors.ink }]}
                       />
                     ) : (
                       <View style={{ minHeight: MIN_TOUCH, justifyContent: 'center', alignItems: 'flex-end', paddingHorizontal: space.xs, backgroundColor: tint, borderRadius: radius.sm }}>
-                        <Text style={[figure, { color: j < i && onChange ? colors.mutedInk : colors.ink }]}>{Number.isFinite(v) ? v.toFixed(2) : '?'}</Text>
+                        <Text style={[figure, { color: j < i && onChange ? colors.mutedInk : colors.ink }]}>{Number.isFinite(v) ? decimal(v, 2) : '?'}</Text>
                       </View>
                     )}
                   </View>

@@ -68,7 +68,7 @@ export function DataTable<T>({ columns, rows, rowKey, onRowPress, label, rowTone
       flexDirection: 'row' as const,
       borderBottomWidth: 1,
       borderColor: colors.rule,
-      backgroundColor: tone === 'highlight' ? colors.accentTint : r === null ? colors.paper : i % 2 ? '#FCFBF8' : colors.surface,
+      backgroundColor: tone === 'highlight' ? colors.accentTint : r === null ? colors.paper : i % 2 ? colors.stripe : colors.surface,
       opacity: tone === 'muted' ? 0.6 : 1,
     };
   };

@@ -1,7 +1,8 @@
 import { Text, View } from 'react-native';
 import Svg, { G, Line, Path, Text as SvgText } from 'react-native-svg';
-import { colors, space, type } from '@/constants/theme';
-import { money } from './projectionFigures';
+import { colors, space, type, type OptionStyle } from '@/constants/theme';
+import { FAN_LEGEND, fanChartSummary, moneyAxis, potAxisLabel, wholeTicks } from '@/figures';
+import { OptionMark } from './OptionMark';
 
 export type FanChartProps = {
   title: string;
@@ -15,36 +16,23 @@ export type FanChartProps = {
   width: number;
   /** Shared upper limit of the money axis, so charts side by side compare at a glance. */
   yMax?: number;
-  accent?: string;
+  /** The option's own mark (colour, dash, marker), shown beside the title. */
+  option?: OptionStyle;
 };
 
 const HEIGHT = 220;
 const PAD = { left: 58, right: 12, top: 12, bottom: 40 };
 
-function niceStep(max: number): number {
-  const raw = max / 4;
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  return [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? raw;
-}
-
-function shortMoney(v: number, currency: string): string {
-  const symbol = money(0, currency).replace(/[\d.,\s]/g, '');
-  if (v >= 1e6) return `${symbol}${(v / 1e6).toFixed(v % 1e6 === 0 ? 0 : 1)}m`;
-  if (v >= 1e3) return `${symbol}${Math.round(v / 1e3)}k`;
-  return `${symbol}${Math.round(v)}`;
-}
-
 /**
  * Percentile fan: the 5–95 band (lightest spruce), the 25–75 band (stronger), the median in
  * ochre, and the pot needed for the income target as a dashed ink line at retirement.
  */
-export function FanChart({ title, ages, bands, target, currency, realTerms, width, yMax, accent }: FanChartProps) {
+export function FanChart({ title, ages, bands, target, currency, realTerms, width, yMax, option }: FanChartProps) {
   const w = Math.max(240, width);
   const plotW = w - PAD.left - PAD.right;
   const plotH = HEIGHT - PAD.top - PAD.bottom;
-  const top = yMax ?? Math.max(...bands.p95, target ?? 0) * 1.05;
-  const step = niceStep(top);
-  const yTop = Math.ceil(top / step) * step;
+  const axis = moneyAxis(yMax ?? Math.max(...bands.p95, target ?? 0) * 1.05, currency);
+  const yTop = axis.max;
   const x = (i: number) => PAD.left + (ages.length === 1 ? 0 : (i / (ages.length - 1)) * plotW);
   const y = (v: number) => PAD.top + plotH - (Math.min(v, yTop) / yTop) * plotH;
   const area = (lo: number[], hi: number[]) =>
@@ -54,29 +42,27 @@ export function FanChart({ title, ages, bands, target, currency, realTerms, widt
       .map(([a, b]) => `${a},${b}`)
       .join('L')}Z`;
   const line = (vals: number[]) => `M${vals.map((v, i) => `${x(i)},${y(v)}`).join('L')}`;
-  const ticks = Array.from({ length: Math.round(yTop / step) + 1 }, (_, k) => k * step);
-  const ageStep = ages.length > 30 ? 10 : 5;
-  const ageTicks = ages.map((a, i) => [a, i] as const).filter(([a], i) => a % ageStep === 0 || i === ages.length - 1);
-  const last = ages.length - 1;
-  const unit = realTerms ? "today's money" : 'money of the day';
-  const summary =
-    `${title}. At age ${ages[last]}: median ${money(bands.p50[last], currency)}, ` +
-    `half of outcomes between ${money(bands.p25[last], currency)} and ${money(bands.p75[last], currency)}, ` +
-    `nine in ten between ${money(bands.p5[last], currency)} and ${money(bands.p95[last], currency)} (${unit})` +
-    (target ? `; the income target needs ${money(target, currency)}.` : '.');
+  const ticks = axis.ticks;
+  const ageTicks = wholeTicks(ages[0], ages[ages.length - 1])
+    .map((a) => [a, ages.indexOf(a)] as const)
+    .filter(([, i]) => i >= 0);
+  const summary = fanChartSummary({ title, ages, bands, target, currency, realTerms });
 
   return (
     <View style={{ gap: space.xs }} testID="fan-chart">
-      <Text style={[type.label, { color: colors.ink }]} accessibilityRole="header">
-        {title}
-      </Text>
+      <View style={{ flexDirection: 'row', alignItems: 'center', gap: space.sm }}>
+        {option ? <OptionMark style={option} /> : null}
+        <Text style={[type.label, { color: colors.ink, flex: 1 }]} accessibilityRole="header">
+          {title}
+        </Text>
+      </View>
       <Svg width={w} height={HEIGHT} accessibilityLabel={summary} role="img">
         <G>
           {ticks.map((t) => (
             <G key={t}>
               <Line x1={PAD.left} x2={w - PAD.right} y1={y(t)} y2={y(t)} stroke={colors.rule} strokeWidth={1} />
               <SvgText x={PAD.left - 6} y={y(t) + 4} fontSize={11} fill={colors.mutedInk} textAnchor="end">
-                {shortMoney(t, currency)}
+                {axis.label(t)}
               </SvgText>
             </G>
           ))}
@@ -94,16 +80,15 @@ export function FanChart({ title, ages, bands, target, currency, realTerms, widt
             Age (years)
           </SvgText>
           <SvgText x={12} y={PAD.top + plotH / 2} fontSize={11} fill={colors.ink} textAnchor="middle" transform={`rotate(-90 12 ${PAD.top + plotH / 2})`}>
-            {`Pot (${currency}, ${unit})`}
+            {potAxisLabel(currency, realTerms)}
           </SvgText>
-          {accent ? <Line x1={PAD.left} x2={PAD.left + 28} y1={2} y2={2} stroke={accent} strokeWidth={4} /> : null}
         </G>
       </Svg>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.md }}>
-        <Key swatch={colors.band90} label="5–95th percentile" />
-        <Key swatch={colors.band50} label="25–75th" />
-        <Key swatch={colors.median} label="Median" line />
-        {target ? <Key swatch={colors.target} label="Pot for income target" dashed /> : null}
+        <Key swatch={colors.band90} label={FAN_LEGEND.outer} />
+        <Key swatch={colors.band50} label={FAN_LEGEND.inner} />
+        <Key swatch={colors.median} label={FAN_LEGEND.median} line />
+        {target ? <Key swatch={colors.target} label={FAN_LEGEND.target} dashed /> : null}
       </View>
       <Text style={[type.caption, { color: colors.mutedInk }]} testID="fan-chart-text">
         {summary}

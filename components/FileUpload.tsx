@@ -2,7 +2,6 @@ import { useState } from 'react';
 import { Text, View } from 'react-native';
 import * as DocumentPicker from 'expo-document-picker';
 import { colors, space, type } from '@/constants/theme';
-import { ApiError } from '@/hooks/api';
 import type { PickedFile } from '@/hooks/upload';
 import { Button, Notice } from './ui';
 
@@ -37,11 +36,11 @@ export function FileUpload({ label, onFile, busy, hint, testID }: Props) {
 
 type Problem = { path: string; message: string; line?: number; column?: string };
 
-/** An upload's rejection: the summary, then each bad line with its column and reason. */
+/** An upload's rejection (the API client's error, with its issues): the summary, then each bad line with its column and reason. */
 export function UploadProblems({ error }: { error: unknown }) {
   if (!error) return null;
   const message = error instanceof Error ? error.message : String(error);
-  const issues = (error instanceof ApiError ? error.issues : []) as Problem[];
+  const issues = ((error as { issues?: Problem[] }).issues ?? []) as Problem[];
   return (
     <Notice tone="error">
       <View style={{ gap: 4 }} testID="upload-problems">

@@ -2,8 +2,8 @@ import { useMemo, useState } from 'react';
 import { Text, View } from 'react-native';
 import Svg, { G, Line, Path, Text as SvgText } from 'react-native-svg';
 import { weightsAt, type GlidePoint } from '@/simulation';
-import { colors, space, type } from '@/constants/theme';
-import { pct } from './format';
+import { colors, fundColour, space, type } from '@/constants/theme';
+import { glideMixText, shareAxis, wholeTicks } from '@/figures';
 
 type Props = {
   funds: { id: string; name: string }[];
@@ -16,11 +16,6 @@ type Props = {
   compact?: boolean;
 };
 
-/** A fund's colour, stable by its position in the scheme's fund list. */
-export function fundColour(index: number) {
-  return colors.series[index % colors.series.length];
-}
-
 /**
  * Fund weights from `fromYears` to retirement as stacked areas. Interpolation is the
  * engine's own (weightsAt), so the picture matches what a projection will use.
@@ -32,6 +27,7 @@ export function GlidePathChart({ funds, glidePath, fromYears = 40, height = 220,
   const weights = useMemo(() => (glidePath.length ? years.map((y) => Array.from(weightsAt(glidePath, ids, y))) : []), [glidePath, ids, years]);
   const used = funds.map((f, i) => ({ ...f, i })).filter((f) => weights.some((w) => w[f.i] > 1e-9));
 
+  const share = shareAxis();
   const pad = { left: compact ? 4 : 40, right: 8, top: 8, bottom: compact ? 4 : 34 };
   const w = Math.max(0, width - pad.left - pad.right);
   const h = height - pad.top - pad.bottom;
@@ -60,8 +56,7 @@ export function GlidePathChart({ funds, glidePath, fromYears = 40, height = 220,
     ? summaryYears
         .map((yy) => {
           const wt = weightsAt(glidePath, ids, yy);
-          const parts = funds.map((f, i) => [f.name, wt[i]] as const).filter(([, v]) => v > 1e-9);
-          return `${yy} years to retirement: ${parts.map(([n, v]) => `${n} ${pct(v, 1)}`).join(', ')}`;
+          return glideMixText(yy, funds.map((f, i) => ({ name: f.name, weight: wt[i] })));
         })
         .join('. ')
     : 'No points yet.';
@@ -74,11 +69,11 @@ export function GlidePathChart({ funds, glidePath, fromYears = 40, height = 220,
           <Svg width={width} height={height}>
             {!compact ? (
               <G>
-                {[0, 0.25, 0.5, 0.75, 1].map((v) => (
+                {share.ticks.map((v) => (
                   <G key={v}>
                     <Line x1={pad.left} x2={pad.left + w} y1={y(v)} y2={y(v)} stroke={colors.rule} strokeWidth={1} />
                     <SvgText x={pad.left - 6} y={y(v) + 4} fontSize={11} fill={colors.mutedInk} textAnchor="end">
-                      {`${v * 100}%`}
+                      {share.label(v)}
                     </SvgText>
                   </G>
                 ))}
@@ -89,9 +84,8 @@ export function GlidePathChart({ funds, glidePath, fromYears = 40, height = 220,
             ))}
             {!compact ? (
               <G>
-                {years
-                  .map((yy, k) => [yy, k] as const)
-                  .filter(([yy]) => yy % 10 === 0)
+                {wholeTicks(0, fromYears, 4)
+                  .map((yy) => [yy, years.indexOf(yy)] as const)
                   .map(([yy, k]) => (
                     <SvgText key={yy} x={x(k)} y={pad.top + h + 14} fontSize={11} fill={colors.mutedInk} textAnchor="middle">
                       {String(yy)}

@@ -1,8 +1,7 @@
 import { useState } from 'react';
 import { Pressable, Text, TextInput, View, type TextStyle } from 'react-native';
-import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
-import { fundColour } from './GlidePathChart';
-import { parseNumber, parsePct, pct, pctInput } from './format';
+import { colors, fundColour, MIN_TOUCH, radius, space, type } from '@/constants/theme';
+import { parseNumberInput, parsePercentInput, percent, percentInputText } from '@/figures';
 import { Button } from './ui';
 import { rebalance } from './glideWeights';
 
@@ -12,20 +11,22 @@ type Props = {
   funds: { id: string; name: string }[];
   points: EditablePoint[];
   onChange: (points: EditablePoint[]) => void;
+  /** Problems per point from the form's schema (the API's own), shown beside the point. */
+  errors?: ({ yearsToRetirement?: string; weights?: string } | undefined)[];
 };
 
 const figure: TextStyle = { ...type.figure, fontVariant: ['tabular-nums'] };
 
 function WeightInput({ value, label, onCommit, colour }: { value: number; label: string; onCommit: (v: number) => void; colour: string }) {
-  const [text, setText] = useState(pctInput(value, 2));
+  const [text, setText] = useState(percentInputText(value));
   const [shown, setShown] = useState(value);
   if (shown !== value) {
     setShown(value);
-    setText(pctInput(value, 2));
+    setText(percentInputText(value));
   }
   const commit = () => {
-    const v = parsePct(text);
-    if (v === null || v < 0 || v > 1) setText(pctInput(value, 2));
+    const v = parsePercentInput(text);
+    if (v === null || v < 0 || v > 1) setText(percentInputText(value));
     else if (Math.abs(v - value) > 1e-12) onCommit(v);
   };
   return (
@@ -41,7 +42,7 @@ function WeightInput({ value, label, onCommit, colour }: { value: number; label:
         onBlur={commit}
         onSubmitEditing={commit}
         inputMode="decimal"
-        style={[figure, { width: 80, minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: '#B9B2A7', borderRadius: radius.sm, paddingHorizontal: space.sm, color: colors.ink, backgroundColor: colors.surface }]}
+        style={[figure, { width: 80, minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: colors.inputBorder, borderRadius: radius.sm, paddingHorizontal: space.sm, color: colors.ink, backgroundColor: colors.surface }]}
       />
       <Text style={[type.body, { color: colors.mutedInk, width: 16 }]}>%</Text>
     </View>
@@ -52,7 +53,7 @@ function WeightInput({ value, label, onCommit, colour }: { value: number; label:
  * Glide-path points, each with its years to retirement and a weight per fund. Changing a
  * weight rebalances the point's other weights so every point always sums to 100%.
  */
-export function GlidePathEditor({ funds, points, onChange }: Props) {
+export function GlidePathEditor({ funds, points, onChange, errors }: Props) {
   const ids = funds.map((f) => f.id);
   const [yearsText, setYearsText] = useState(points.map((p) => String(p.yearsToRetirement)));
   const [shown, setShown] = useState(points);
@@ -76,7 +77,7 @@ export function GlidePathEditor({ funds, points, onChange }: Props) {
         const total = ids.reduce((s, f) => s + (p.weights[f] ?? 0), 0);
         const ok = Math.abs(total - 1) < 1e-9;
         const commitYears = () => {
-          const v = parseNumber(yearsText[k] ?? '');
+          const v = parseNumberInput(yearsText[k] ?? '');
           if (v === null || v < 0 || v > 100) setYearsText(points.map((q) => String(q.yearsToRetirement)));
           else if (v !== p.yearsToRetirement) setPoint(k, { ...p, yearsToRetirement: v });
         };
@@ -90,19 +91,29 @@ export function GlidePathEditor({ funds, points, onChange }: Props) {
                 onBlur={commitYears}
                 onSubmitEditing={commitYears}
                 inputMode="decimal"
-                style={[figure, { width: 64, minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: '#B9B2A7', borderRadius: radius.sm, paddingHorizontal: space.sm, color: colors.ink }]}
+                style={[figure, { width: 64, minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: colors.inputBorder, borderRadius: radius.sm, paddingHorizontal: space.sm, color: colors.ink }]}
               />
               <Text style={[type.label, { color: colors.ink, flex: 1 }]}>years to retirement</Text>
-              <Text style={[type.caption, { color: ok ? colors.success : colors.danger }]}>Total {pct(total, 2)}</Text>
+              <Text style={[type.caption, { color: ok ? colors.success : colors.danger }]}>Total {percent(total, 'rate')}</Text>
               {points.length > 1 ? (
                 <Pressable accessibilityRole="button" accessibilityLabel={`Remove point ${k + 1}`} onPress={() => onChange(points.filter((_, i) => i !== k))} style={{ minHeight: MIN_TOUCH, minWidth: MIN_TOUCH, alignItems: 'center', justifyContent: 'center' }}>
                   <Text style={[type.label, { color: colors.danger }]}>Remove</Text>
                 </Pressable>
               ) : null}
             </View>
+            {errors?.[k]?.yearsToRetirement ? (
+              <Text role="alert" style={[type.caption, { color: colors.danger }]}>
+                Years to retirement: {errors[k]!.yearsToRetirement}
+              </Text>
+            ) : null}
             {funds.map((f, i) => (
               <WeightInput key={f.id} label={f.name} colour={fundColour(i)} value={p.weights[f.id] ?? 0} onCommit={(v) => setPoint(k, { ...p, weights: rebalance(p.weights, ids, f.id, v) })} />
             ))}
+            {errors?.[k]?.weights ? (
+              <Text role="alert" style={[type.caption, { color: colors.danger }]}>
+                Weights: {errors[k]!.weights}
+              </Text>
+            ) : null}
           </View>
         );
       })}

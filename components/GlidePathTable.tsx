@@ -1,5 +1,5 @@
 import { DataTable } from './DataTable';
-import { pct } from './format';
+import { percent } from '@/figures';
 
 type Point = { yearsToRetirement: number; weights: Record<string, number> };
 
@@ -14,7 +14,7 @@ export function GlidePathTable({ funds, points, label = 'Glide path points' }: {
       rowKey={(p) => String(p.yearsToRetirement)}
       columns={[
         { key: 'y', title: 'Years to retirement', width: 110, align: 'right', render: (p) => String(p.yearsToRetirement) },
-        ...used.map((f) => ({ key: f.id, title: f.name, width: 120, align: 'right' as const, render: (p: Point) => pct(p.weights[f.id] ?? 0, 1) })),
+        ...used.map((f) => ({ key: f.id, title: f.name, width: 120, align: 'right' as const, render: (p: Point) => percent(p.weights[f.id] ?? 0, 'share') })),
       ]}
     />
   );

@@ -1,8 +1,8 @@
 import { useMemo, useState } from 'react';
 import { Text, View } from 'react-native';
 import Svg, { G, Line, Path, Text as SvgText } from 'react-native-svg';
-import { colors, space, type } from '@/constants/theme';
-import { fundColour } from './GlidePathChart';
+import { colors, fundColour, space, type } from '@/constants/theme';
+import { decimal, valueAxis } from '@/figures';
 
 type Props = {
   dates: string[];
@@ -11,25 +11,16 @@ type Props = {
   title?: string;
 };
 
-function niceTicks(lo: number, hi: number, count = 4): number[] {
-  const span = hi - lo || 1;
-  const step0 = span / count;
-  const mag = Math.pow(10, Math.floor(Math.log10(step0)));
-  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= step0) ?? step0;
-  const out: number[] = [];
-  for (let v = Math.ceil(lo / step) * step; v <= hi + 1e-12; v += step) out.push(Number(v.toFixed(6)));
-  return out;
-}
-
 /** Growth of one unit invested at the first month-end, one line per fund. */
 export function GrowthChart({ dates, series, height = 240, title = 'Growth of 1 unit' }: Props) {
   const [width, setWidth] = useState(0);
   const all = series.flatMap((s) => s.values);
   const lo = Math.min(1, ...all);
   const hi = Math.max(1, ...all);
-  const ticks = useMemo(() => niceTicks(lo, hi), [lo, hi]);
-  const yLo = Math.min(lo, ticks[0] ?? lo);
-  const yHi = Math.max(hi, ticks[ticks.length - 1] ?? hi);
+  const axis = useMemo(() => valueAxis(lo, hi), [lo, hi]);
+  const ticks = axis.ticks;
+  const yLo = axis.min;
+  const yHi = axis.max;
   const pad = { left: 44, right: 10, top: 8, bottom: 36 };
   const w = Math.max(0, width - pad.left - pad.right);
   const h = height - pad.top - pad.bottom;
@@ -38,7 +29,7 @@ export function GrowthChart({ dates, series, height = 240, title = 'Growth of 1 
   const y = (v: number) => pad.top + (1 - (v - yLo) / (yHi - yLo || 1)) * h;
   const years = dates.map((d, k) => [d.slice(0, 4), k] as const).filter(([yy, k]) => k === 0 || dates[k - 1].slice(0, 4) !== yy);
   const every = Math.max(1, Math.ceil(years.length / 6));
-  const summary = series.map((s) => `${s.name}: 1 became ${s.values[s.values.length - 1]?.toFixed(2)}`).join('; ');
+  const summary = series.map((s) => `${s.name}: 1 became ${decimal(s.values[s.values.length - 1], 2)}`).join('; ');
 
   return (
     <View style={{ gap: space.sm }}>
@@ -48,9 +39,9 @@ export function GrowthChart({ dates, series, height = 240, title = 'Growth of 1 
           <Svg width={width} height={height}>
             {ticks.map((t) => (
               <G key={t}>
-                <Line x1={pad.left} x2={pad.left + w} y1={y(t)} y2={y(t)} stroke={t === 1 ? '#B9B2A7' : colors.rule} strokeWidth={1} />
+                <Line x1={pad.left} x2={pad.left + w} y1={y(t)} y2={y(t)} stroke={t === 1 ? colors.referenceLine : colors.rule} strokeWidth={1} />
                 <SvgText x={pad.left - 6} y={y(t) + 4} fontSize={11} fill={colors.mutedInk} textAnchor="end">
-                  {t.toFixed(2)}
+                  {axis.label(t)}
                 </SvgText>
               </G>
             ))}

@@ -1,26 +1,24 @@
 import { useState } from 'react';
 import { Pressable, Text, TextInput, View } from 'react-native';
 import { lambdaFromGamble } from '@/simulation';
+import { BOARD_LAMBDA, clampLambda } from '@/constants/riskAversion';
 import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
 import { Button, styles } from './ui';
-import { money } from './projectionFigures';
+import { lambda as lambdaText, money, parseNumberInput } from '@/figures';
 
-const PRESETS = [-1, 0, 1, 2, 3, 5, 8];
-const MIN = -5;
-const MAX = 50;
-const clamp = (v: number) => Math.min(MAX, Math.max(MIN, Math.round(v * 10) / 10));
+const clamp = clampLambda;
 
 /** The board's risk aversion λ: presets, a stepper and a typed value, plus a calibration by a stated gamble. */
 export function LambdaControl({ value, onChange, currency }: { value: number; onChange: (v: number) => void; currency: string }) {
   const [text, setText] = useState<string | null>(null);
-  const shown = text ?? String(value);
+  const shown = text ?? lambdaText(value).replace('−', '-');
   return (
     <View style={{ gap: space.sm }}>
       <Text style={styles.body}>
         λ sets how much the board dislikes a spread of outcomes. At 0 only the average pot counts (risk-neutral); higher values weigh poor outcomes more heavily; below 0 the board would prefer a wider spread (risk-seeking).
       </Text>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' }}>
-        <Step label="−" a11y="Lower λ by 0.5" onPress={() => onChange(clamp(value - 0.5))} />
+        <Step label="−" a11y={`Lower λ by ${BOARD_LAMBDA.step}`} onPress={() => onChange(clamp(value - BOARD_LAMBDA.step))} />
         <TextInput
           accessibilityLabel="Risk aversion λ"
           value={shown}
@@ -38,8 +36,8 @@ export function LambdaControl({ value, onChange, currency }: { value: number; on
           }}
           style={[styles.input, { width: 80, textAlign: 'center' }]}
         />
-        <Step label="+" a11y="Raise λ by 0.5" onPress={() => onChange(clamp(value + 0.5))} />
-        {PRESETS.map((p) => (
+        <Step label="+" a11y={`Raise λ by ${BOARD_LAMBDA.step}`} onPress={() => onChange(clamp(value + BOARD_LAMBDA.step))} />
+        {BOARD_LAMBDA.presets.map((p) => (
           <Pressable
             key={p}
             accessibilityRole="button"
@@ -89,14 +87,14 @@ function Calibrate({ currency, onUse }: { currency: string; onUse: (v: number) =
   if (!open) return <Button kind="secondary" label="Calibrate λ from a gamble" onPress={() => setOpen(true)} />;
   let answer: { lambda: number } | { error: string };
   try {
-    answer = { lambda: lambdaFromGamble({ pot: Number(pot), loss: Number(loss), gain: Number(gain) }) };
+    answer = { lambda: lambdaFromGamble({ pot: parseNumberInput(pot) ?? Number.NaN, loss: parseNumberInput(loss) ?? Number.NaN, gain: parseNumberInput(gain) ?? Number.NaN }) };
   } catch (e) {
     answer = { error: (e as Error).message };
   }
   return (
     <View style={{ gap: space.sm, borderTopWidth: 1, borderColor: colors.rule, paddingTop: space.sm }}>
       <Text style={styles.body}>
-        A member has a pot of {money(Number(pot) || 0, currency)}. A coin toss would cost {money(Number(loss) || 0, currency)} on tails. How much would heads have to win before the board would accept the toss?
+        A member has a pot of {money(parseNumberInput(pot) ?? 0, currency, 'entered')}. A coin toss would cost {money(parseNumberInput(loss) ?? 0, currency, 'entered')} on tails. How much would heads have to win before the board would accept the toss?
       </Text>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm }}>
         <Num label="Pot" value={pot} onChange={setPot} />
@@ -106,7 +104,7 @@ function Calibrate({ currency, onUse }: { currency: string; onUse: (v: number) =
       {'lambda' in answer ? (
         <View style={{ flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md }}>
           <Text style={styles.body} testID="calibrated-lambda">
-            That answer corresponds to λ = {answer.lambda.toFixed(2)}.
+            That answer corresponds to λ = {lambdaText(answer.lambda)}.
           </Text>
           <Button label="Use this λ" onPress={() => onUse(clamp(answer.lambda))} />
         </View>

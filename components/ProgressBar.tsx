@@ -1,5 +1,6 @@
 import { Text, View } from 'react-native';
 import { colors, radius, space, type } from '@/constants/theme';
+import { percent } from '@/figures';
 
 /** A determinate progress bar; `fraction` is 0…1. */
 export function ProgressBar({ fraction, label }: { fraction: number; label: string }) {
@@ -18,7 +19,7 @@ export function ProgressBar({ fraction, label }: { fraction: number; label: stri
         <View style={{ width: `${pct}%`, height: '100%', backgroundColor: colors.primary }} />
       </View>
       <Text style={[type.caption, { color: colors.mutedInk }]}>
-        {label}: {pct}%
+        {label}: {percent(Math.max(0, Math.min(1, fraction)), 'chance')}
       </Text>
     </View>
   );

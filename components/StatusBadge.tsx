@@ -1,12 +1,6 @@
-import { Text, View } from 'react-native';
-import { colors, radius, space, type } from '@/constants/theme';
+import { Tag } from './Tag';
 
 /** Draft (ochre) or approved (green): draft assumptions are marked wherever they appear. */
 export function StatusBadge({ status }: { status: 'draft' | 'approved' }) {
-  const draft = status === 'draft';
-  return (
-    <View style={{ alignSelf: 'flex-start', paddingHorizontal: space.sm, paddingVertical: 2, borderRadius: radius.sm, backgroundColor: draft ? colors.accentTint : colors.successTint }}>
-      <Text style={[type.label, { color: draft ? '#7A4F12' : colors.success }]}>{draft ? 'Draft' : 'Approved'}</Text>
-    </View>
-  );
+  return status === 'draft' ? <Tag label="Draft" tone="warning" /> : <Tag label="Approved" tone="success" />;
 }

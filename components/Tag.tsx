@@ -4,7 +4,7 @@ import { colors, radius, space, type } from '@/constants/theme';
 const TONES = {
   primary: [colors.primaryTint, colors.primary],
   success: [colors.successTint, colors.success],
-  warning: [colors.accentTint, '#7A4F12'],
+  warning: [colors.accentTint, colors.accentInk],
   danger: [colors.dangerTint, colors.danger],
 } as const;
 

@@ -80,7 +80,7 @@ export function Field({ label, error, hint, style, ...input }: FieldProps) {
 
 export function Notice({ tone = 'info', children }: { tone?: 'info' | 'error' | 'success' | 'warning'; children: ReactNode }) {
   const bg = { info: colors.primaryTint, error: colors.dangerTint, success: colors.successTint, warning: colors.accentTint }[tone];
-  const fg = { info: colors.primary, error: colors.danger, success: colors.success, warning: '#7A4F12' }[tone];
+  const fg = { info: colors.primary, error: colors.danger, success: colors.success, warning: colors.accentInk }[tone];
   return (
     <View role={tone === 'error' ? 'alert' : undefined} style={[styles.notice, { backgroundColor: bg, borderLeftColor: fg }]}>
       {typeof children === 'string' ? <Text style={[type.body, { color: colors.ink }]}>{children}</Text> : children}
@@ -122,7 +122,7 @@ export const styles = StyleSheet.create({
     ...type.body,
     minHeight: MIN_TOUCH,
     borderWidth: 1,
-    borderColor: '#B9B2A7',
+    borderColor: colors.inputBorder,
     borderRadius: radius.md,
     paddingHorizontal: space.md,
     backgroundColor: colors.surface,

@@ -25,8 +25,15 @@ import {
   customType,
   check,
 } from 'drizzle-orm/pg-core';
+import { ROLES, type Role } from '../constants/permissions';
+// Shapes of the JSON columns: types only (erased), so the schema loads nothing from the server.
+import type { ScenarioSnapshot } from '../server/services/scenario';
+import type { StoredResult } from '../server/jobs/result';
+import type { ReportContent } from '../server/reports/content';
+import type { DecisionRecord } from '../server/reports/decisionRecord';
 
-export const roleEnum = pgEnum('role', ['administrator', 'trustee', 'actuary', 'communications', 'board']);
+/** The roles come from the permission table, the one list the guards and menus read too. */
+export const roleEnum = pgEnum('role', ROLES);
 
 export const users = pgTable(
   'users',
@@ -369,8 +376,10 @@ export const projectionRuns = pgTable(
     seed: integer('seed').notNull(),
     paths: integer('paths').notNull(),
     riskAversion: doublePrecision('risk_aversion').notNull(),
-    input: jsonb('input').notNull(),
-    result: jsonb('result'),
+    /** Every input of the run as it was requested (engine scenario plus labels and provenance). */
+    input: jsonb('input').$type<ScenarioSnapshot>().notNull(),
+    /** The stored result once done (see server/jobs/result.ts). */
+    result: jsonb('result').$type<StoredResult>(),
     engineVersion: varchar('engine_version', { length: 32 }),
     error: text('error'),
     /** Written every few seconds by the worker running it; an old one means the worker was lost. */
@@ -425,7 +434,7 @@ export const fundAssumptionsRelations = relations(fundAssumptions, ({ one }) => 
   fund: one(funds, { fields: [fundAssumptions.fundId], references: [funds.id] }),
 }));
 
-export type Role = (typeof roleEnum.enumValues)[number];
+export type { Role };
 export type User = typeof users.$inferSelect;
 export type Scheme = typeof schemes.$inferSelect;
 
@@ -448,7 +457,7 @@ export const reports = pgTable(
     riskAversion: doublePrecision('risk_aversion').notNull(),
     draft: boolean('draft').notNull(),
     /** The figures and sentences printed in the PDF, for reading in the app without the file. */
-    content: jsonb('content').notNull(),
+    content: jsonb('content').$type<ReportContent>().notNull(),
     pdf: bytea('pdf').notNull(),
     createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
@@ -566,7 +575,7 @@ export const reviews = pgTable(
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
     signedOffAt: timestamp('signed_off_at', { withTimezone: true }),
     /** The decision record as signed: every printed figure and sentence. */
-    record: jsonb('record'),
+    record: jsonb('record').$type<DecisionRecord>(),
     pdf: bytea('pdf'),
   },
   (t) => [index('reviews_scheme').on(t.schemeId, t.createdAt)],

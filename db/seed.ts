@@ -4,7 +4,6 @@
  */
 import seedrandom from 'seedrandom';
 import { sql } from 'drizzle-orm';
-import { hashPassword } from '../server/auth/password';
 import { createDb, type Db } from './client';
 import {
   approvals,
@@ -25,6 +24,12 @@ import {
 
 /** Demo only: these sign-ins exist in the demo database and nowhere else. */
 export const DEMO_PASSWORD = 'keelson-demo-2026';
+/**
+ * The demo password's hash, in the server's `scrypt$N$r$p$salt$hash` form (server/auth/password.ts),
+ * made once: the seed stays free of server code and needs no scrypt work per test database.
+ * tests/unit/seed.test.ts checks that the server accepts it.
+ */
+export const DEMO_PASSWORD_HASH = 'scrypt$32768$8$1$yvjvDu+x8lt8fJnUYXogTA==$7UgPGywgTWVkakXOAQW3+46XkPpjXboAHQSnQOyrsjI=';
 export const DEMO_USERS: { email: string; displayName: string; role: Role }[] = [
   { email: 'admin@fernleigh.example', displayName: 'Morag Tennant', role: 'administrator' },
   { email: 'trustee@fernleigh.example', displayName: 'Idris Pellow', role: 'trustee' },
@@ -107,7 +112,7 @@ export async function isEmpty(db: Db): Promise<boolean> {
 
 /** Seeds the demo scheme in one transaction. Returns the scheme id. */
 export async function seedDemo(db: Db, opts: { memberCount?: number } = {}): Promise<{ schemeId: string; secondSchemeId: string }> {
-  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  const passwordHash = DEMO_PASSWORD_HASH;
   return db.transaction(async (tx) => {
     const [scheme] = await tx.insert(schemes).values({ name: DEMO_SCHEME_NAME, currency: 'GBP' }).returning();
     const [second] = await tx.insert(schemes).values({ name: SECOND_SCHEME_NAME, currency: 'GBP' }).returning();

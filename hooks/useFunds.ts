@@ -1,8 +1,10 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Wire } from '@/types/wire';
+import type { FundRow } from '@/server/services/funds';
 import { api } from './api';
 import { useCurrentScheme } from './useCurrentScheme';
 
-export type Fund = { id: string; schemeId: string; name: string; assetClass: string; createdAt: string };
+export type Fund = Wire<FundRow>;
 export type FundList = { currency: string; funds: Fund[] };
 
 export const fundKeys = {

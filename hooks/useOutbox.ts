@@ -1,20 +1,10 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Wire } from '@/types/wire';
+import type { listOutbox, retryMessage } from '@/server/services/mail';
 import { api } from './api';
 
-export type OutboxMessage = {
-  id: string;
-  kind: string;
-  recipients: string[];
-  subject: string;
-  body: string;
-  status: 'queued' | 'retrying' | 'sent' | 'failed';
-  attempts: number;
-  lastError: string | null;
-  createdAt: string;
-  lastAttemptAt: string | null;
-  sentAt: string | null;
-  attachments: { id: string; filename: string; contentType: string; size: number }[];
-};
+export type OutboxMessage = Wire<Awaited<ReturnType<typeof listOutbox>>[number]>;
+export type RetriedMessage = Wire<Awaited<ReturnType<typeof retryMessage>>>;
 
 export const outboxKeys = { list: (schemeId: string) => ['schemes', schemeId, 'outbox'] as const };
 
@@ -31,7 +21,7 @@ export function useOutbox(schemeId: string | undefined) {
 export function useRetryMessage(schemeId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (id: string) => api<{ id: string; status: string }>(`/schemes/${schemeId}/outbox/${id}/retry`, { method: 'POST', body: {} }),
+    mutationFn: (id: string) => api<RetriedMessage>(`/schemes/${schemeId}/outbox/${id}/retry`, { method: 'POST', body: {} }),
     onSuccess: () => qc.invalidateQueries({ queryKey: outboxKeys.list(schemeId) }),
   });
 }

@@ -1,13 +1,17 @@
 import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Role } from '@/constants/permissions';
 import type { Wire } from '@/types/wire';
-import type { describeActivity } from '@/server/services/activity';
+import type { activity } from '@/server/services/activity';
+import type { invite, issueReset, listPeople } from '@/server/services/people';
 import { api } from './api';
 
-export type Person = { id: string; email: string; displayName: string; role: Role; since: string; active: boolean };
-export type PendingInvitation = { id: string; email: string; role: Role; expiresAt: string; createdAt: string };
+/** The people routes answer with what server/services/people.ts returns (dates as ISO strings). */
+type PeopleList = Wire<Awaited<ReturnType<typeof listPeople>>>;
+export type Person = PeopleList['people'][number];
+export type PendingInvitation = PeopleList['pending'][number];
 /** An audit event as the activity screen reads it: the sentence, details and link, beside the recorded values. */
-export type AuditEvent = Wire<Awaited<ReturnType<typeof describeActivity>>[number]>;
+type ActivityPage = Wire<Awaited<ReturnType<typeof activity>>>;
+export type AuditEvent = ActivityPage['events'][number];
 
 export const peopleKeys = {
   all: (schemeId: string) => ['schemes', schemeId, 'people'] as const,
@@ -17,13 +21,13 @@ export const peopleKeys = {
 export function usePeople(schemeId: string | undefined) {
   return useQuery({
     queryKey: peopleKeys.all(schemeId ?? ''),
-    queryFn: () => api<{ people: Person[]; pending: PendingInvitation[] }>(`/schemes/${schemeId}/people`),
+    queryFn: () => api<PeopleList>(`/schemes/${schemeId}/people`),
     enabled: !!schemeId,
   });
 }
 
 /** What the server answers for a sent invitation: where it went, never its link. */
-export type InvitationSent = { id: string; email: string; role: Role; expiresAt: string; emailedTo: string };
+export type InvitationSent = Wire<Awaited<ReturnType<typeof invite>>>;
 
 export function useInvite(schemeId: string) {
   const qc = useQueryClient();
@@ -68,7 +72,7 @@ export function useRemovePerson(schemeId: string) {
 
 /** E-mails the person a password-reset link and ends their sessions. */
 export function useResetLink(schemeId: string) {
-  return useMutation({ mutationFn: (userId: string) => api<{ emailedTo: string; expiresAt: string; sessionsEnded: number }>(`/schemes/${schemeId}/people/${userId}/reset-link`, { method: 'POST', body: {} }) });
+  return useMutation({ mutationFn: (userId: string) => api<Wire<Awaited<ReturnType<typeof issueReset>>>>(`/schemes/${schemeId}/people/${userId}/reset-link`, { method: 'POST', body: {} }) });
 }
 
 export function useActivity(schemeId: string | undefined) {
@@ -76,7 +80,7 @@ export function useActivity(schemeId: string | undefined) {
     queryKey: peopleKeys.activity(schemeId ?? ''),
     enabled: !!schemeId,
     initialPageParam: null as number | null,
-    queryFn: ({ pageParam }) => api<{ events: AuditEvent[]; next: number | null }>(`/schemes/${schemeId}/activity?limit=50${pageParam ? `&before=${pageParam}` : ''}`),
+    queryFn: ({ pageParam }) => api<ActivityPage>(`/schemes/${schemeId}/activity?limit=50${pageParam ? `&before=${pageParam}` : ''}`),
     getNextPageParam: (last) => last.next,
   });
 }

@@ -1,43 +1,19 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Wire } from '@/types/wire';
+import type { ReportContent as ServerReportContent } from '@/server/reports/content';
+import type { createReport, emailReport, getReport, listReports } from '@/server/services/reports';
+import type { ReportRequest } from '@/schemas/runs';
 import { api } from './api';
+import type { RunSummary } from './useRuns';
 
-export type ReportSummary = { id: string; title: string; runId: string; riskAversion: number; draft: boolean; createdAt: string; createdBy: string | null };
-
-export type ReportComparisonRow = {
-  memberId: string;
-  memberLabel: string;
-  optionId: string;
-  optionName: string;
-  display: {
-    meanReal: string;
-    percentilesReal: Record<string, string>;
-    probabilityReachingTarget: string;
-    expectedShortfallReal: string;
-    medianRealIncome: string;
-    certaintyEquivalentPot: string;
-    certaintyEquivalentReturn: string;
-  };
-};
-
-export type ReportContent = {
-  title: string;
-  schemeName: string;
-  createdOn: string;
-  runId: string;
-  draft: boolean;
-  assumptionSet: { version: number; status: string; setAt: string; approvedOn: string | null; approvedBy: string | null };
-  lambdaDisplay: string;
-  percentiles: number[];
-  options: { id: string; name: string }[];
-  comparison: ReportComparisonRow[];
-  breakEven: string[];
-  monteCarlo: { lines: string[] };
-  caution: string;
-  draftText: string | null;
-};
-
-export type ReportDetail = ReportSummary & { content: ReportContent };
-export type FinishedRun = { id: string; status: string; finishedAt: string | null; assumptionsDraft: boolean; assumptionSet: { version: number }; options: { name: string }[]; members: { label: string }[]; paths: number; riskAversion: number };
+export type ReportSummary = Wire<Awaited<ReturnType<typeof listReports>>[number]>;
+export type ReportContent = Wire<ServerReportContent>;
+export type ReportComparisonRow = ReportContent['comparison'][number];
+export type ReportDetail = Wire<Awaited<ReturnType<typeof getReport>>>;
+export type CreatedReport = Wire<Awaited<ReturnType<typeof createReport>>>;
+export type EmailedReport = Wire<Awaited<ReturnType<typeof emailReport>>>;
+/** A finished run offered as a report's source (the runs list's own summary). */
+export type FinishedRun = RunSummary;
 
 export const reportKeys = {
   list: (schemeId: string) => ['schemes', schemeId, 'reports'] as const,
@@ -68,11 +44,11 @@ export function useFinishedRuns(schemeId: string | undefined, enabled = true) {
 export function useCreateReport(schemeId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { runId: string; title?: string; riskAversion?: number }) => api<ReportSummary>(`/schemes/${schemeId}/reports`, { body }),
+    mutationFn: (body: ReportRequest) => api<CreatedReport>(`/schemes/${schemeId}/reports`, { body }),
     onSuccess: () => qc.invalidateQueries({ queryKey: reportKeys.list(schemeId) }),
   });
 }
 
 export function useEmailReport(schemeId: string) {
-  return useMutation({ mutationFn: (id: string) => api<{ messageId: string; recipients: string[]; status: string }>(`/schemes/${schemeId}/reports/${id}/email`, { method: 'POST', body: {} }) });
+  return useMutation({ mutationFn: (id: string) => api<EmailedReport>(`/schemes/${schemeId}/reports/${id}/email`, { method: 'POST', body: {} }) });
 }

@@ -1,63 +1,20 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { ScenarioInput, Stress } from '@/simulation';
 import type { Wire } from '@/types/wire';
 import type { PairFigures as ServerPairFigures, StoredResult, StoredVariant as ServerStoredVariant } from '@/server/jobs/result';
+import type { runForRole } from '@/server/services/runAccess';
+import type { getRun, runChoices, summary } from '@/server/services/runs';
+import type { RunRequestBody } from '@/schemas/runs';
 import { api } from './api';
 
-export type RunStatus = 'queued' | 'running' | 'done' | 'failed';
-
-export type RunSummary = {
-  id: string;
-  status: RunStatus;
-  progress: number;
-  error: string | null;
-  seed: number;
-  paths: number;
-  riskAversion: number;
-  assumptionsDraft: boolean;
-  assumptionSet: { id: string; version: number; status: 'draft' | 'approved'; setAt: string };
-  /** Each option with the version it ran as (null for runs made before options were versioned). */
-  options: { id: string; name: string; versionId: string | null; version: number | null; status: 'draft' | 'approved' | null }[];
-  /** The scheme's current default when the run was made. */
-  baselineOptionId: string | null;
-  members: { id: string; label: string }[];
-  stress: Stress | null;
-  targetReplacementRatio: number;
-  engineVersion: string | null;
-  rerunOf: string | null;
-  createdAt: string;
-  finishedAt: string | null;
-  /** Running, but its worker has stopped responding; it is retried shortly. */
-  stalled: boolean;
-};
-
+export type RunSummary = Wire<ReturnType<typeof summary>>;
+export type RunStatus = RunSummary['status'];
 export type PairFigures = Wire<ServerPairFigures>;
 export type StoredVariant = Wire<ServerStoredVariant>;
 export type RunResult = Wire<StoredResult>;
-export type RunDetail = RunSummary & {
-  input: { scenario: ScenarioInput; funds: { id: string; name: string }[]; members: { id: string; label: string; age: number; retirementAge: number }[] };
-  result: RunResult | null;
-};
-/** What a run can be made of; each option as a run uses it (newest approved version) with a newer draft beside it. */
-type ChoiceVersion = { id: string; version: number; status: 'draft' | 'approved'; name: string };
-export type RunChoices = {
-  assumptionSets: { id: string; version: number; status: 'draft' | 'approved'; setAt: string; fundOrder: string[] }[];
-  options: { id: string; name: string; description: string; version: ChoiceVersion; draft: ChoiceVersion | null; isCurrentDefault: boolean }[];
-  members: { id: string; label: string; age: number; retirementAge: number }[];
-  funds: { id: string; name: string }[];
-};
-export type RunRequest = {
-  assumptionSetId: string;
-  optionIds: string[];
-  /** Option id → a version to run instead of its newest approved one. */
-  optionVersions?: Record<string, string>;
-  memberIds: string[];
-  paths: number;
-  seed?: number;
-  riskAversion: number;
-  targetReplacementRatio: number;
-  stress?: Stress;
-};
+/** A run as the route answers: fund assumptions withheld from roles that may not read them. */
+export type RunDetail = Wire<ReturnType<typeof runForRole<Awaited<ReturnType<typeof getRun>>>>>;
+export type RunChoices = Wire<Awaited<ReturnType<typeof runChoices>>>;
+export type RunRequest = RunRequestBody;
 
 export const runKeys = {
   all: (schemeId: string) => ['schemes', schemeId, 'runs'] as const,

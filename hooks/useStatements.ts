@@ -1,38 +1,19 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Wire } from '@/types/wire';
+import type { STATEMENT_PERCENTILES, StatementText, WHAT_IF } from '@/figures';
+import type { exportSummary, ExportRequest as ServerExportRequest, illustrativeStatement, statementSources } from '@/server/services/statements';
 import { api } from './api';
 
-export type StatementSources = {
-  membershipCount: number;
-  rounding: { pot: number; income: number };
-  percentiles: { weak: number; typical: number; strong: number };
-  runs: { id: string; finishedAt: string; draft: boolean; paths: number; assumptionSetVersion: number; options: { id: string; name: string }[]; members: { id: string; label: string; age: number; retirementAge: number }[] }[];
+/** The sources route adds the rounding rules in words and the statement's fixed choices. */
+export type StatementSources = Wire<Awaited<ReturnType<typeof statementSources>>> & {
+  rounding: { pot: string; income: string };
+  percentiles: typeof STATEMENT_PERCENTILES;
+  whatIf: typeof WHAT_IF;
 };
-
-export type StatementText = {
-  title: string;
-  intro: string[];
-  cases: { key: 'weak' | 'typical' | 'strong'; label: string; pot: string; income: string; sentence: string }[];
-  income: string[];
-  changes: string[];
-  notes: string[];
-  caution: string[];
-};
-
-export type StatementPreview = { figures: { draft: boolean; memberLabel: string; optionName: string }; text: StatementText };
-
-export type StatementExport = {
-  id: string;
-  runId: string;
-  optionId: string;
-  scope: 'illustrative' | 'membership';
-  format: 'pdf' | 'csv';
-  status: 'queued' | 'running' | 'done' | 'failed';
-  progress: number;
-  memberCount: number;
-  error: string | null;
-  filename: string | null;
-  createdAt: string;
-};
+export type { StatementText };
+export type StatementPreview = Wire<Awaited<ReturnType<typeof illustrativeStatement>>>;
+export type StatementExport = Wire<ReturnType<typeof exportSummary>>;
+export type ExportRequest = ServerExportRequest;
 
 export type StatementChoice = { runId: string; optionId: string; memberId: string };
 
@@ -72,7 +53,7 @@ export function useStatementExports(schemeId: string | undefined) {
 export function useStartExport(schemeId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { runId: string; optionId: string; scope: 'illustrative' | 'membership'; format: 'pdf' | 'csv' }) => api<StatementExport>(`/schemes/${schemeId}/statement-exports`, { body }),
+    mutationFn: (body: ExportRequest) => api<StatementExport>(`/schemes/${schemeId}/statement-exports`, { body }),
     onSuccess: () => qc.invalidateQueries({ queryKey: statementKeys.exports(schemeId) }),
   });
 }

@@ -3,6 +3,7 @@ import type { RequestHandler } from 'express';
 import multer from 'multer';
 import { parse } from 'csv-parse';
 import { HttpError, type FieldIssue } from './errors';
+import { parsePercentInput } from '../figures';
 
 /** Largest accepted upload. 5 MB holds roughly 80,000 membership rows. */
 export const MAX_UPLOAD_BYTES = 5 * 1024 * 1024;
@@ -116,12 +117,11 @@ export async function readCsv(
 export function numberCell(raw: string, opts: { percent?: boolean } = {}): number | string {
   let s = raw.trim();
   if (s === '') return 'is empty';
-  let scale = 1;
-  if (opts.percent && s.endsWith('%')) {
-    s = s.slice(0, -1).trim();
-    scale = 0.01;
-  }
+  const percent = !!opts.percent && s.endsWith('%');
+  if (percent) s = s.slice(0, -1).trim();
   const cleaned = s.replace(/,(?=\d{3}(\D|$))/g, '');
   if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(cleaned)) return `"${raw}" is not a number`;
-  return Number(cleaned) * scale;
+  // "8.3%" becomes the fraction at the edge without floating-point noise (figures/numbers.ts).
+  if (percent) return parsePercentInput(cleaned) ?? `"${raw}" is not a percentage written as a plain decimal`;
+  return Number(cleaned);
 }

@@ -4,8 +4,7 @@ import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { colors, MIN_TOUCH, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useActivity, type AuditEvent } from '@/hooks/usePeople';
-
-const when = (iso: string) => new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+import { dateTime } from '@/figures';
 
 export default function Activity() {
   const { scheme, can } = useCurrentScheme();
@@ -59,7 +58,7 @@ function EventRow({ e }: { e: AuditEvent }) {
           {d}
         </Text>
       ))}
-      <Text style={styles.muted}>{when(e.at)}</Text>
+      <Text style={styles.muted}>{dateTime(e.at)}</Text>
     </View>
   );
 }

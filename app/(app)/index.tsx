@@ -9,11 +9,10 @@ import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/the
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useOverview, type Overview as OverviewData } from '@/hooks/useOverview';
 import { useSession } from '@/hooks/useSession';
+import { count, date, dateTime, daysBetween, isoDay, percent, plural } from '@/figures';
 
 const STATUS_TEXT = { queued: 'Waiting to start', running: 'Running', done: 'Finished', failed: 'Failed' } as const;
 const STATUS_COLOUR = { queued: colors.mutedInk, running: colors.accent, done: colors.success, failed: colors.danger } as const;
-
-const day = (iso: string) => new Date(iso.length === 10 ? `${iso}T00:00:00Z` : iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 
 function Row({ href, children, testID }: { href: string; children: ReactNode; testID?: string }) {
   return (
@@ -29,14 +28,14 @@ function Figure({ label, value }: { label: string; value: number | null }) {
   if (value === null) return null;
   return (
     <View style={{ minWidth: 120, flexGrow: 1 }}>
-      <Text style={[type.heading, { color: colors.ink, fontVariant: ['tabular-nums'] }]}>{value.toLocaleString('en-GB')}</Text>
+      <Text style={[type.heading, { color: colors.ink, fontVariant: ['tabular-nums'] }]}>{count(value)}</Text>
       <Text style={styles.muted}>{label}</Text>
     </View>
   );
 }
 
-/** Whole days from today (UTC) to an ISO date. */
-const daysUntil = (iso: string) => Math.round((Date.parse(`${iso}T00:00:00Z`) - Date.parse(`${new Date().toISOString().slice(0, 10)}T00:00:00Z`)) / 86_400_000);
+/** Whole days from today (in UK time, as dates are shown) to an ISO date. */
+const daysUntil = (iso: string) => daysBetween(isoDay(new Date()), iso);
 
 /** The current default option and when the trustees next review it. */
 function GovernanceCard({ o, role, style }: { o: OverviewData; role: Role; style: ViewStyle }) {
@@ -57,12 +56,12 @@ function GovernanceCard({ o, role, style }: { o: OverviewData; role: Role; style
       )}
       <Row href="/reviews" testID="overview-next-review">
         <Text style={[styles.body, days !== null && days <= 30 ? { color: days < 0 ? colors.danger : colors.accent } : null]}>
-          {g.nextReviewDue ? `Next review due ${day(g.nextReviewDue)}` : 'No next review date is set'}
-          {days === null ? '' : days > 0 ? ` · in ${days} day${days === 1 ? '' : 's'}` : days === 0 ? ' · today' : ` · ${-days} day${days === -1 ? '' : 's'} overdue`}
+          {g.nextReviewDue ? `Next review due ${date(g.nextReviewDue)}` : 'No next review date is set'}
+          {days === null ? '' : days > 0 ? ` · in ${plural(days, 'day')}` : days === 0 ? ' · today' : ` · ${plural(-days, 'day')} overdue`}
         </Text>
         <Text style={styles.muted}>
-          {g.lastReview ? `Last review: ${g.lastReview.title}, signed off ${g.lastReview.signedOffAt ? day(g.lastReview.signedOffAt) : ''}` : 'No review signed off in Keelson yet.'}
-          {g.openReviews ? ` · ${g.openReviews} review${g.openReviews === 1 ? '' : 's'} open` : ''}
+          {g.lastReview ? `Last review: ${g.lastReview.title}, signed off ${g.lastReview.signedOffAt ? date(g.lastReview.signedOffAt) : ''}` : 'No review signed off in Keelson yet.'}
+          {g.openReviews ? ` · ${plural(g.openReviews, 'review')} open` : ''}
         </Text>
       </Row>
       {g.optionDrafts.map((d) => (
@@ -119,11 +118,11 @@ export default function Overview() {
               {o.assumptions.latestApproved ? (
                 <Row href={`/assumptions/${o.assumptions.latestApproved.id}`} testID="overview-approved-set">
                   <Text style={styles.body}>
-                    Version {o.assumptions.latestApproved.version}, set at {day(o.assumptions.latestApproved.setAt)}
+                    Version {o.assumptions.latestApproved.version}, set at {date(o.assumptions.latestApproved.setAt)}
                   </Text>
                   <Text style={styles.muted}>
                     Approved{o.assumptions.latestApproved.approvedBy ? ` by ${o.assumptions.latestApproved.approvedBy}` : ''}
-                    {o.assumptions.latestApproved.approvedAt ? ` on ${day(o.assumptions.latestApproved.approvedAt)}` : ''}
+                    {o.assumptions.latestApproved.approvedAt ? ` on ${date(o.assumptions.latestApproved.approvedAt)}` : ''}
                   </Text>
                 </Row>
               ) : (
@@ -133,7 +132,7 @@ export default function Overview() {
                 <Row key={d.id} href={`/assumptions/${d.id}`}>
                   <Text style={[styles.body, { color: colors.accent }]}>Draft version {d.version} — not yet approved</Text>
                   <Text style={styles.muted}>
-                    {d.createdBy ? `Started by ${d.createdBy}, ` : ''}last changed {day(d.updatedAt)}
+                    {d.createdBy ? `Started by ${d.createdBy}, ` : ''}last changed {dateTime(d.updatedAt)}
                     {can(scheme.role, 'assumptions:approve') ? ' · awaiting a trustee' : ''}
                   </Text>
                 </Row>
@@ -146,11 +145,11 @@ export default function Overview() {
               {o.runs.map((r) => (
                 <Row key={r.id} href={`/projections/${r.id}`}>
                   <Text style={styles.body}>
-                    {day(r.createdAt)} · {r.paths.toLocaleString('en-GB')} paths{r.assumptionsDraft ? ' · DRAFT assumptions' : ''}
+                    {dateTime(r.createdAt)} · {count(r.paths)} paths{r.assumptionsDraft ? ' · DRAFT assumptions' : ''}
                   </Text>
                   <Text style={[type.label, { color: STATUS_COLOUR[r.status] }]}>
                     {STATUS_TEXT[r.status]}
-                    {r.status === 'running' ? ` · ${Math.round(r.progress * 100)}%` : ''}
+                    {r.status === 'running' ? ` · ${percent(r.progress, 'chance')}` : ''}
                   </Text>
                 </Row>
               ))}
@@ -168,7 +167,7 @@ export default function Overview() {
                 <Row key={r.id} href={`/reports/${r.id}`}>
                   <Text style={styles.body}>{r.title}</Text>
                   <Text style={styles.muted}>
-                    {day(r.createdAt)}
+                    {dateTime(r.createdAt)}
                     {r.draft ? ' · on DRAFT assumptions' : ''}
                   </Text>
                 </Row>

@@ -3,15 +3,16 @@ import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { colors, radius, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useOutbox, useRetryMessage, type OutboxMessage } from '@/hooks/useOutbox';
+import { dateTime } from '@/figures';
 
 const STATUS: Record<OutboxMessage['status'], { label: string; fg: string; bg: string }> = {
   queued: { label: 'Waiting to send', fg: colors.primary, bg: colors.primaryTint },
-  retrying: { label: 'Failed, will retry', fg: '#7A4F12', bg: colors.accentTint },
+  retrying: { label: 'Failed, will retry', fg: colors.accentInk, bg: colors.accentTint },
   sent: { label: 'Sent', fg: colors.success, bg: colors.successTint },
   failed: { label: 'Failed', fg: colors.danger, bg: colors.dangerTint },
 };
 
-const when = (d: string | null) => (d ? new Date(d).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' }) : '');
+const when = (d: string | null) => (d ? dateTime(d) : '');
 
 export default function Outbox() {
   const { scheme, can } = useCurrentScheme();

@@ -8,6 +8,7 @@ import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useSession } from '@/hooks/useSession';
 import { useCancelInvitation, useChangeRole, useInvite, usePeople, useRemovePerson, useResendInvitation, useResetLink, type PendingInvitation, type Person } from '@/hooks/usePeople';
+import { dateTime } from '@/figures';
 
 export default function People() {
   const { scheme, can } = useCurrentScheme();
@@ -117,7 +118,7 @@ function PendingRow({ invitation: p, schemeId }: { invitation: PendingInvitation
     <View style={{ paddingVertical: space.sm, borderTopWidth: 1, borderColor: colors.rule, gap: space.xs }} testID={`invitation-${p.email}`}>
       <Text style={styles.body}>{p.email}</Text>
       <Text style={styles.muted}>
-        {ROLE_LABELS[p.role]} · e-mailed {new Date(p.createdAt).toLocaleDateString('en-GB')} · expires {new Date(p.expiresAt).toLocaleDateString('en-GB')}
+        {ROLE_LABELS[p.role]} · e-mailed {dateTime(p.createdAt)} · expires {dateTime(p.expiresAt)}
       </Text>
       <View style={styles.row}>
         <Button kind="secondary" label="Send again" onPress={() => resend.mutate(p.id)} busy={resend.isPending} />

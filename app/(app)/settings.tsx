@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { Text, View } from 'react-native';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
 import { Choices } from '@/components/Choices';
-import { day } from '@/components/format';
+import { date, dateTime } from '@/figures';
 import { space } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
@@ -67,13 +67,13 @@ export default function SettingsScreen() {
             <>
               <Text style={styles.body}>{`Signatures needed: ${s.signOffQuorum} trustee${s.signOffQuorum === 1 ? '' : 's'}.`}</Text>
               <Text style={styles.body}>{`Reviews every ${s.reviewIntervalYears} year${s.reviewIntervalYears === 1 ? '' : 's'}.`}</Text>
-              <Text style={styles.body}>{`Next review due: ${s.nextReviewDue ? day(s.nextReviewDue) : 'not set'}.`}</Text>
+              <Text style={styles.body}>{`Next review due: ${s.nextReviewDue ? date(s.nextReviewDue) : 'not set'}.`}</Text>
             </>
           )}
           <Text style={styles.muted}>Every trustee is e-mailed 90 and 30 days before the next review is due, and on the day.</Text>
         </Card>
       </View>
-      {s.updatedAt ? <Text style={styles.muted}>{`Last changed${s.updatedBy ? ` by ${s.updatedBy}` : ''} on ${day(s.updatedAt)}.`}</Text> : null}
+      {s.updatedAt ? <Text style={styles.muted}>{`Last changed${s.updatedBy ? ` by ${s.updatedBy}` : ''} on ${dateTime(s.updatedAt)}.`}</Text> : null}
       {editable ? <Button label="Save settings" onPress={submit} busy={save.isPending} testID="save-settings" /> : null}
     </Screen>
   );

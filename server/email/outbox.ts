@@ -1,10 +1,9 @@
-import type { Request } from 'express';
 import type { Pool } from 'pg';
 import { and, eq, gt, inArray, isNull, sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../../db/client';
 import { accessTokens, outboxAttachments, outboxMessages } from '../../db/schema';
 import { audit } from '../services/audit';
-import { contextOf, type ServiceContext } from '../services/context';
+import type { ServiceContext } from '../services/context';
 import { backgroundProducer, enqueue, MAIL_QUEUE } from '../jobs/background';
 import { LINK_PLACEHOLDER, linkUrl, type LinkSettings } from '../auth/links';
 import { log, messageOf } from '../log';
@@ -23,10 +22,6 @@ export type OutgoingMail = {
   attachments?: { filename: string; contentType: string; content: Buffer }[];
 };
 
-/** Services pass their ServiceContext; older callers may still pass the request. */
-type Caller = ServiceContext | Request | null;
-const serviceContext = (c: Caller): ServiceContext | null => (!c ? null : 'actor' in c && !('app' in c) ? (c as ServiceContext) : contextOf(c as Request));
-
 /** Subjects are one line: a CR or LF would start a new mail header. */
 const oneLine = (s: string) => s.replace(/[\r\n\t]+/g, ' ').trim().slice(0, 300);
 
@@ -35,8 +30,7 @@ const oneLine = (s: string) => s.replace(/[\r\n\t]+/g, ' ').trim().slice(0, 300)
  * delivery — all in the caller's transaction. Call `backgroundProducer(pool)` before opening
  * the transaction (the queue client needs a connection of its own to start).
  */
-export async function queueMail(pool: Pool, tx: DbOrTx, caller: Caller, m: OutgoingMail) {
-  const sc = serviceContext(caller);
+export async function queueMail(pool: Pool, tx: DbOrTx, sc: ServiceContext | null, m: OutgoingMail) {
   const recipients = (Array.isArray(m.to) ? m.to : [m.to]).map((a) => a.trim()).filter(Boolean);
   if (!recipients.length) throw new Error('a message needs at least one recipient');
   if (m.text.includes('token=')) throw new Error('a mail body must not carry a token: write LINK_PLACEHOLDER and pass linkTokenId');

@@ -1,18 +1,23 @@
 import { weightsAt } from '../../simulation';
+import { percentileKey } from '../../simulation/statistics';
+import { optionStyle } from '../../constants/theme';
+import { count, DRAFT_TEXT, fanChartSummary, glideMixText, moneyRoundingNote, percentileLabel } from '../../figures';
 import type { ReportContent, RunForReport } from './content';
-import { pctKey } from './content';
-import { DRAFT_TEXT } from './caution';
-import { currencySymbol, formatMoney } from './format';
-import { contentWidth, factRows, fanChart, finishPages, glidePathChart, heading, MARGIN, newDocument, noticeBox, paragraph, PDF_COLORS, table, toBuffer, type Column } from './draw';
+import { contentWidth, factRows, fanChart, finishPages, glidePathChart, heading, MARGIN, newDocument, noticeBox, optionSwatch, paragraph, PDF_COLORS, table, toBuffer, type Column } from './draw';
 
-const ordinal = (n: number) => `${n}${n % 100 >= 11 && n % 100 <= 13 ? 'th' : ({ 1: 'st', 2: 'nd', 3: 'rd' } as Record<number, string>)[n % 10] ?? 'th'}`;
-const pctLabel = (p: number) => (p === 50 ? 'Median' : ordinal(p));
-
-/** Renders the board scenario report. Every figure printed comes from `content` (or, for the charts, the run's bands). */
-export async function renderBoardReport(content: ReportContent, run: RunForReport): Promise<Buffer> {
+/**
+ * Renders the board scenario report. Every figure printed comes from `content` (or, for the
+ * charts, the run's bands through figures/). `schemeFundIds` is the scheme's list of funds, whose
+ * order gives each fund its colour, as on screen.
+ */
+export async function renderBoardReport(content: ReportContent, run: RunForReport, schemeFundIds: string[] = []): Promise<Buffer> {
   const doc = newDocument({ title: content.title, subject: `${content.schemeName}: scenario report from run ${content.runId}` });
-  const symbol = currencySymbol(content.currency);
   const sc = run.input.scenario;
+  const colourIndex = (fundId: string, fallback: number) => {
+    const i = schemeFundIds.indexOf(fundId);
+    return i >= 0 ? i : schemeFundIds.length + fallback;
+  };
+  const optionIndex = (optionId: string) => sc.options.findIndex((o) => o.id === optionId);
   const res = run.result.base.result;
 
   // Title page.
@@ -29,7 +34,7 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
     ['Assumption set', `version ${set.version} (${set.status === 'approved' ? 'approved' : 'DRAFT'}), set on ${set.setAt}`],
     ['Approved by', set.approvedBy ? `${set.approvedBy}${set.approvedOn ? `, ${set.approvedOn}` : ''}` : set.status === 'approved' ? `not recorded${set.approvedOn ? ` (approved ${set.approvedOn})` : ''}` : 'not approved'],
     ['Risk aversion (λ)', content.lambdaDisplay],
-    ['Monte Carlo', `${content.monteCarlo.paths.toLocaleString('en-GB')} paths, seed ${content.monteCarlo.seed}, engine ${content.monteCarlo.engineVersion}`],
+    ['Monte Carlo', `${count(content.monteCarlo.paths)} paths, seed ${content.monteCarlo.seed}, engine ${content.monteCarlo.engineVersion}`],
     ['Options compared', content.options.map((o) => o.name).join('; ')],
     ['Illustrative members', content.assumptions.members.map((m) => m.label).join('; ')],
   ];
@@ -88,69 +93,74 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
   const years = Array.from({ length: maxYears + 1 }, (_, i) => maxYears - i);
   for (const o of content.options) {
     const eng = sc.options.find((x) => x.id === o.id)!;
+    const ids = sc.funds.map((x) => x.id);
     const series = sc.funds
-      .map((f) => ({ name: content.assumptions.funds[sc.funds.indexOf(f)].name, weights: years.map((y) => weightsAt(eng.glidePath, sc.funds.map((x) => x.id), y)[sc.funds.indexOf(f)]) }))
+      .map((f, k) => ({ name: content.assumptions.funds[k].name, colourIndex: colourIndex(f.id, k), weights: years.map((y) => weightsAt(eng.glidePath, ids, y)[k]) }))
       .filter((s) => s.weights.some((w) => w > 0));
     glidePathChart(doc, { title: o.name, years, series });
     if (o.description) paragraph(doc, o.description, { size: 9, color: PDF_COLORS.muted });
-    paragraph(doc, o.glidePath.map((p) => `${p.yearsToRetirement} years to go: ${p.weights.map((w) => `${w.fund} ${w.weight}`).join(', ')}`).join('. ') + '.', { size: 8.5 });
+    paragraph(doc, o.glidePath.map((p) => glideMixText(p.yearsToRetirement, p.weights.map((w) => ({ name: w.fund, weight: w.fraction ?? Number.NaN })))).join('. ') + '.', { size: 8.5 });
   }
 
   // Fan charts.
   doc.addPage();
   heading(doc, "Projected pots in today's money");
   const ps = res.percentiles;
-  const outer = [Math.min(...ps), Math.max(...ps)];
-  const innerCandidates = ps.filter((p) => p > outer[0] && p < 50);
-  const inner = [innerCandidates.length ? innerCandidates[innerCandidates.length - 1] : outer[0], 0];
-  inner[1] = 100 - inner[0];
-  if (!ps.includes(inner[1])) inner[1] = outer[1];
-  for (const pair of res.results) {
-    const row = content.comparison.find((r) => r.optionId === pair.optionId && r.memberId === pair.memberId)!;
-    const b = pair.bands.real;
-    fanChart(doc, {
-      title: `${row.optionName}: ${row.memberLabel}`,
-      ages: pair.ages,
-      lowOuter: b[pctKey(outer[0])],
-      highOuter: b[pctKey(outer[1])],
-      lowInner: b[pctKey(inner[0])],
-      highInner: b[pctKey(inner[1])],
-      median: b.p50,
-      target: pair.atRetirement.targetRealPot,
-      symbol,
-      outerLabel: `${ordinal(outer[0])}–${ordinal(outer[1])} percentile`,
-      innerLabel: `${ordinal(inner[0])}–${ordinal(inner[1])} percentile`,
-      summary: `At ${pair.ages[pair.ages.length - 1]}: median ${row.display.percentilesReal.p50}; ${ordinal(outer[0])} to ${ordinal(outer[1])} percentile ${row.display.percentilesReal[pctKey(outer[0])]} to ${row.display.percentilesReal[pctKey(outer[1])]}; target pot ${row.display.targetRealPot}.`,
-    });
+  for (const memberId of [...new Set(content.comparison.map((r) => r.memberId))]) {
+    const pairs = res.results.filter((p) => p.memberId === memberId);
+    // One money axis per member, so the options' charts compare at a glance (as on screen).
+    const yMax = Math.max(...pairs.map((p) => Math.max(...p.bands.real.p95, p.atRetirement.targetRealPot))) * 1.05;
+    for (const row of content.comparison.filter((r) => r.memberId === memberId)) {
+      const pair = pairs.find((p) => p.optionId === row.optionId)!;
+      const title = `${row.optionName} — ${row.memberLabel}`;
+      fanChart(doc, {
+        title,
+        ages: pair.ages,
+        bands: pair.bands.real,
+        target: pair.atRetirement.targetRealPot,
+        currency: content.currency,
+        yMax,
+        option: optionStyle(optionIndex(row.optionId)),
+        summary: fanChartSummary({ title, ages: pair.ages, bands: pair.bands.real, target: pair.atRetirement.targetRealPot, currency: content.currency, realTerms: true }),
+      });
+    }
   }
 
   // Comparison.
   doc.addPage();
   heading(doc, 'Comparison of options');
-  paragraph(doc, `Pots at retirement in today's money. Certainty equivalents at λ = ${content.lambdaDisplay}. Exact values are in the CSV export of this table.`, { size: 9, color: PDF_COLORS.muted });
+  paragraph(doc, `Pots at retirement in today's money, options ranked by certainty-equivalent pot at λ = ${content.lambdaDisplay}. ± is one Monte Carlo standard error. Exact values are in the CSV export of this table.`, { size: 9, color: PDF_COLORS.muted });
+  if (content.baseline) paragraph(doc, content.baseline, { size: 9, color: PDF_COLORS.muted });
   const memberIds = [...new Set(content.comparison.map((r) => r.memberId))];
+  const cell = (r: ReportContent['comparison'][number], key: ReportContent['columns'][number]['key']) => {
+    const se = r.standardErrors[key];
+    return se ? `${r.display[key]}\n${se}` : r.display[key];
+  };
   for (const memberId of memberIds) {
     const rows = content.comparison.filter((r) => r.memberId === memberId);
     paragraph(doc, rows[0].memberLabel, { font: 'semibold', size: 11 });
     table(
       doc,
-      [{ header: 'Option', width: 130 }, ...ps.map((p): Column => ({ header: `${pctLabel(p)}`, width: 52, align: 'right' }))],
-      rows.map((r) => [r.optionName, ...ps.map((p) => r.display.percentilesReal[pctKey(p)])]),
+      [{ header: 'Rank and option', width: 120 }, ...content.columns.map((c): Column => ({ header: c.label, width: 62, align: 'right' }))],
+      rows.map((r) => [`${r.rank}. ${r.optionName}`, ...content.columns.map((c) => cell(r, c.key))]),
+      { size: 7.5 },
     );
     table(
       doc,
-      [
-        { header: 'Option', width: 130 },
-        { header: 'Mean', width: 58, align: 'right' },
-        { header: 'Chance of target', width: 52, align: 'right' },
-        { header: 'Average of worst 5%', width: 62, align: 'right' },
-        { header: 'Median income a year', width: 60, align: 'right' },
-        { header: `CE pot (λ = ${content.lambdaDisplay})`, width: 62, align: 'right' },
-        { header: 'CE return a year', width: 50, align: 'right' },
-      ],
-      rows.map((r) => [r.optionName, r.display.meanReal, r.display.probabilityReachingTarget, r.display.expectedShortfallReal, r.display.medianRealIncome, r.display.certaintyEquivalentPot, r.display.certaintyEquivalentReturn]),
+      [{ header: 'Option', width: 130 }, ...ps.map((p): Column => ({ header: percentileLabel(p), width: 52, align: 'right' }))],
+      rows.map((r) => [r.optionName, ...ps.map((p) => r.display.percentilesReal[percentileKey(p)])]),
     );
+    const diffs = content.differences?.find((d) => d.memberId === memberId)?.sentences ?? [];
+    for (const d of diffs) paragraph(doc, d, { size: 9 });
   }
+  paragraph(doc, 'How each option is marked in the charts', { font: 'semibold', size: 10 });
+  for (const o of content.options) {
+    const yy = doc.y;
+    optionSwatch(doc, MARGIN, yy + 5, optionStyle(optionIndex(o.id)));
+    doc.font('regular').fontSize(9).fillColor(PDF_COLORS.ink).text(o.name, MARGIN + 28, yy, { width: contentWidth(doc) - 28 });
+    doc.moveDown(0.2);
+  }
+  doc.x = MARGIN;
   if (content.breakEven.length) {
     paragraph(doc, 'Where the board’s risk appetite changes the choice', { font: 'semibold', size: 11 });
     for (const s of content.breakEven) paragraph(doc, s);
@@ -164,12 +174,17 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
     [
       { header: 'Option', width: 130 },
       { header: 'Member', width: 95 },
-      { header: 'SE of mean', width: 68, align: 'right' },
-      { header: 'SE of median', width: 68, align: 'right' },
-      { header: 'SE of 5th', width: 68, align: 'right' },
-      { header: 'SE of chance', width: 66, align: 'right' },
+      { header: 'SE of CE pot', width: 56, align: 'right' },
+      { header: 'SE of mean', width: 56, align: 'right' },
+      { header: 'SE of median', width: 56, align: 'right' },
+      { header: 'SE of 5th', width: 56, align: 'right' },
+      { header: 'SE of chance', width: 52, align: 'right' },
     ],
-    content.comparison.map((r) => [r.optionName, r.memberLabel, r.standardErrors.meanReal, r.standardErrors.p50Real, r.standardErrors.p5Real, r.standardErrors.probabilityReachingTarget]),
+    content.comparison.map((r) => [
+      r.optionName,
+      r.memberLabel,
+      ...(['certaintyEquivalentPot', 'meanReal', 'medianReal', 'p5Real', 'probabilityReachingTarget'] as const).map((k) => (r.standardErrors[k] ?? '—').replace(/^± /, '')),
+    ]),
   );
 
   heading(doc, 'Cautions');
@@ -177,40 +192,44 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
   noticeBox(doc, 'Illustration only', [
     content.caution,
     'Markets can behave outside the assumed range: the percentiles describe the model, not the limits of what can happen.',
-    `Figures are rounded to the nearest ${formatMoney(1, content.currency)} for reading; the CSV export carries exact values.`,
+    `${moneyRoundingNote('pot', content.currency)} ${moneyRoundingNote('income', content.currency)} ${moneyRoundingNote('standardError', content.currency)} The CSV export carries exact values.`,
   ]);
 
   finishPages(doc, `${content.schemeName} · ${content.title} · run ${content.runId.slice(0, 8)}${content.draft ? ' · DRAFT' : ''}`, content.draft);
   return toBuffer(doc);
 }
 
+/**
+ * The comparison as CSV rows: for every figure its exact value (`_exact`), its standard error
+ * where it has one (`_standard_error_exact`) and the text as printed (`_as_shown`), then the
+ * percentiles. Money is real (today's money) in the scheme's currency; rates are fractions.
+ */
 export function comparisonCsvRows(content: ReportContent) {
   const ps = content.percentiles;
+  const withSe = content.columns.filter((c) => content.comparison.some((r) => r.exactStandardErrors?.[c.key] !== undefined));
   const header = [
     'member',
     'option',
-    ...ps.map((p) => `real_pot_p${p}`),
-    'real_pot_mean',
-    'probability_reaching_target',
-    'target_real_pot',
-    'expected_shortfall_real_worst_5pct',
-    'median_real_income',
+    'rank',
     'risk_aversion_lambda',
-    'certainty_equivalent_real_pot',
-    'certainty_equivalent_real_return',
+    ...content.columns.map((c) => `${c.csv}_exact`),
+    ...withSe.map((c) => `${c.csv}_standard_error_exact`),
+    ...ps.map((p) => `real_pot_p${p}_exact`),
+    'target_real_pot_exact',
+    ...content.columns.map((c) => `${c.csv}_as_shown`),
+    ...ps.map((p) => `real_pot_p${p}_as_shown`),
   ];
   const rows = content.comparison.map((r) => [
     r.memberLabel,
     r.optionName,
-    ...ps.map((p) => r.exact.percentilesReal[pctKey(p)]),
-    r.exact.meanReal,
-    r.exact.probabilityReachingTarget,
-    r.exact.targetRealPot,
-    r.exact.expectedShortfallReal,
-    r.exact.medianRealIncome,
+    r.rank,
     content.lambda,
-    r.exact.certaintyEquivalentPot,
-    r.exact.certaintyEquivalentReturn,
+    ...content.columns.map((c) => r.exact[c.key]),
+    ...withSe.map((c) => r.exactStandardErrors?.[c.key]),
+    ...ps.map((p) => r.exact.percentilesReal[percentileKey(p)]),
+    r.exact.targetRealPot,
+    ...content.columns.map((c) => r.display[c.key]),
+    ...ps.map((p) => r.display.percentilesReal[percentileKey(p)]),
   ]);
   return { header, rows };
 }

@@ -1,41 +1,49 @@
-import { BREAK_EVEN_RANGE, certaintyEquivalentPot, ceAnnualReturn, memberTimeline } from '../../simulation';
+import { percentileKey } from '../../simulation/statistics';
 import type { ScenarioSnapshot } from '../services/scenario';
-import type { PairFigures, StoredResult } from '../jobs/result';
-import { CAUTION_TEXT, DRAFT_TEXT } from './caution';
-import { formatDate, formatLambda, formatMoney, formatPercent } from './format';
+import type { StoredResult } from '../jobs/result';
+import {
+  CAUTION_TEXT,
+  DRAFT_TEXT,
+  baselineOf,
+  baselineSentence,
+  breakEvenSentence,
+  comparisonCells,
+  comparisonColumns,
+  count,
+  crossingsOf,
+  date,
+  decimal,
+  differenceSentence,
+  differencesToBaseline,
+  lambda as lambdaText,
+  money,
+  percent,
+  pinFirst,
+  rankAt,
+  sampleOf,
+  type ComparisonColumn,
+  type ComparisonKey,
+} from '../../figures';
 
 /**
  * The content of a board scenario report: every figure and sentence the PDF prints, exact and
- * as displayed. It is stored with the report, so the app shows the same words as the file.
+ * as displayed, all worded and rounded by figures/. It is stored with the report, so the app
+ * shows the same words as the file.
  */
 export type ComparisonRow = {
   memberId: string;
   memberLabel: string;
   optionId: string;
   optionName: string;
+  /** 1 for the highest certainty-equivalent pot of the member at the report's λ. */
+  rank: number;
   /** Exact values in the scheme's currency (real terms, today's money) and fractions. */
-  exact: {
-    meanReal: number;
-    percentilesReal: Record<string, number>;
-    probabilityReachingTarget: number;
-    targetRealPot: number;
-    expectedShortfallReal: number;
-    medianRealIncome: number;
-    certaintyEquivalentPot: number;
-    certaintyEquivalentReturn: number | null;
-  };
-  /** The same figures formatted as printed. */
-  display: {
-    meanReal: string;
-    percentilesReal: Record<string, string>;
-    probabilityReachingTarget: string;
-    targetRealPot: string;
-    expectedShortfallReal: string;
-    medianRealIncome: string;
-    certaintyEquivalentPot: string;
-    certaintyEquivalentReturn: string;
-  };
-  standardErrors: { meanReal: string; p50Real: string; p5Real: string; probabilityReachingTarget: string };
+  exact: Record<ComparisonKey, number | null> & { percentilesReal: Record<string, number>; targetRealPot: number };
+  /** The same figures as printed. */
+  display: Record<ComparisonKey, string> & { percentilesReal: Record<string, string>; targetRealPot: string };
+  /** "± …" (one Monte Carlo standard error) for the figures that have one, and their exact values. */
+  standardErrors: Partial<Record<ComparisonKey, string>>;
+  exactStandardErrors: Partial<Record<ComparisonKey, number>>;
 };
 
 export type ReportContent = {
@@ -63,8 +71,14 @@ export type ReportContent = {
     members: { label: string; age: number; retirementAge: number; salary: string; salaryGrowth: string; contributionRate: string; pot: string }[];
     stress: string | null;
   };
-  options: { id: string; name: string; description: string; glidePath: { yearsToRetirement: number; weights: { fund: string; weight: string }[] }[] }[];
+  options: { id: string; name: string; description: string; glidePath: { yearsToRetirement: number; weights: { fund: string; weight: string; fraction: number }[] }[] }[];
+  /** The comparison's columns, headings as printed. */
+  columns: ComparisonColumn[];
   comparison: ComparisonRow[];
+  /** Per member, each option against the baseline (the current default when the run was made, else the top-ranked one). */
+  differences: { memberId: string; memberLabel: string; sentences: string[] }[];
+  /** Which option is the baseline, in words (absent from reports made before options had a current default). */
+  baseline?: string;
   breakEven: string[];
   monteCarlo: { paths: number; seed: number; antithetic: boolean; engineVersion: string; sample: string; lines: string[] };
   caution: string;
@@ -79,24 +93,9 @@ export type RunForReport = {
   engineVersion: string | null;
   input: ScenarioSnapshot;
   result: StoredResult;
+  /** The scheme's current default when the run was made: pinned first, and what differences are measured from. */
+  baselineOptionId: string | null;
 };
-
-export function pctKey(p: number): string {
-  return `p${p}`;
-}
-
-/** Certainty-equivalent pot and return for one pair at λ: the run's own figure at the run's λ, else from the stored sample. */
-function ceAt(run: RunForReport, pair: PairFigures, lambda: number): { pot: number; ret: number | null } {
-  if (lambda === run.riskAversion) {
-    return { pot: pair.atRetirement.certaintyEquivalent.realPot, ret: pair.atRetirement.certaintyEquivalent.realAnnualReturn };
-  }
-  const sample = run.result.base.samples.find((s) => s.optionId === pair.optionId && s.memberId === pair.memberId);
-  if (!sample) throw new Error(`run ${run.id} has no stored sample for ${pair.optionId} × ${pair.memberId}`);
-  const pot = certaintyEquivalentPot(sample.realPots, lambda);
-  const m = run.input.scenario.members.find((x) => x.id === pair.memberId)!;
-  const t = memberTimeline(m, run.input.scenario.inflation);
-  return { pot, ret: ceAnnualReturn(pot, { initialPot: t.initialPot, contributions: t.realContributions }) };
-}
 
 export function buildReportContent(
   run: RunForReport,
@@ -104,66 +103,61 @@ export function buildReportContent(
 ): ReportContent {
   const snap = run.input;
   const sc = snap.scenario;
-  const res = run.result.base.result;
+  const base = run.result.base;
+  const res = base.result;
   const cur = opts.currency;
-  const money = (v: number) => formatMoney(v, cur);
   const fundName = new Map(snap.funds.map((f) => [f.id, f.name]));
   const optionName = new Map(snap.options.map((o) => [o.id, o.name]));
   const memberLabel = new Map(snap.members.map((m) => [m.id, m.label]));
   const lambda = opts.lambda;
+  const lam = lambdaText(lambda);
+  const memberIds = [...new Set(res.results.map((p) => p.memberId))];
+  const ranked = new Map(memberIds.map((id) => [id, rankAt(base, sc, id, lambda, optionName)]));
 
-  const comparison: ComparisonRow[] = res.results.map((pair) => {
-    const a = pair.atRetirement;
-    const ce = ceAt(run, pair, lambda);
-    const percentilesReal = Object.fromEntries(res.percentiles.map((p) => [pctKey(p), a.percentiles.real[pctKey(p)]]));
-    const exact = {
-      meanReal: a.mean.real,
-      percentilesReal,
-      probabilityReachingTarget: a.probabilityReachingTarget,
-      targetRealPot: a.targetRealPot,
-      expectedShortfallReal: a.expectedShortfall.real,
-      medianRealIncome: a.realIncome.p50,
-      certaintyEquivalentPot: ce.pot,
-      certaintyEquivalentReturn: ce.ret,
-    };
-    return {
-      memberId: pair.memberId,
-      memberLabel: memberLabel.get(pair.memberId) ?? pair.memberId,
-      optionId: pair.optionId,
-      optionName: optionName.get(pair.optionId) ?? pair.optionId,
-      exact,
-      display: {
-        meanReal: money(exact.meanReal),
-        percentilesReal: Object.fromEntries(Object.entries(percentilesReal).map(([k, v]) => [k, money(v)])),
-        probabilityReachingTarget: formatPercent(exact.probabilityReachingTarget, 0),
-        targetRealPot: money(exact.targetRealPot),
-        expectedShortfallReal: money(exact.expectedShortfallReal),
-        medianRealIncome: money(exact.medianRealIncome),
-        certaintyEquivalentPot: money(exact.certaintyEquivalentPot),
-        certaintyEquivalentReturn: formatPercent(exact.certaintyEquivalentReturn, 2),
-      },
-      standardErrors: {
-        meanReal: money(a.standardError.real),
-        p50Real: money(pair.extraStandardErrors.p50Real),
-        p5Real: money(pair.extraStandardErrors.p5Real),
-        probabilityReachingTarget: formatPercent(pair.extraStandardErrors.probabilityReachingTarget, 1),
-      },
-    };
+  const baselineId = run.baselineOptionId;
+  // Laid out as on screen: the current default first (with its rank), then the others by rank.
+  const comparison: ComparisonRow[] = memberIds.flatMap((memberId) =>
+    pinFirst(ranked.get(memberId)!, baselineId).map((r) => {
+      const a = r.pair.atRetirement;
+      const cells = comparisonCells(r, cur);
+      const keys = Object.keys(cells) as ComparisonKey[];
+      const percentilesReal = Object.fromEntries(res.percentiles.map((p) => [percentileKey(p), a.percentiles.real[percentileKey(p)]]));
+      const withSe = keys.filter((k) => cells[k].standardError !== null);
+      return {
+        memberId,
+        memberLabel: memberLabel.get(memberId) ?? memberId,
+        optionId: r.optionId,
+        optionName: r.name,
+        rank: r.rank,
+        exact: { ...(Object.fromEntries(keys.map((k) => [k, cells[k].exact])) as Record<ComparisonKey, number | null>), percentilesReal, targetRealPot: a.targetRealPot },
+        display: {
+          ...(Object.fromEntries(keys.map((k) => [k, cells[k].text])) as Record<ComparisonKey, string>),
+          percentilesReal: Object.fromEntries(Object.entries(percentilesReal).map(([k, v]) => [k, money(v, cur)])),
+          targetRealPot: money(a.targetRealPot, cur),
+        },
+        standardErrors: Object.fromEntries(withSe.map((k) => [k, cells[k].standardError!])),
+        exactStandardErrors: Object.fromEntries(withSe.filter((k) => cells[k].exactStandardError !== null).map((k) => [k, cells[k].exactStandardError!])),
+      };
+    }),
+  );
+
+  const differences = memberIds.map((memberId) => {
+    const rows = ranked.get(memberId)!;
+    const base = baselineOf(rows, baselineId);
+    return { memberId, memberLabel: memberLabel.get(memberId) ?? memberId, sentences: base ? differencesToBaseline(rows, base.optionId).map((d) => differenceSentence(d, base.name, cur)) : [] };
   });
 
-  const lam = formatLambda(lambda);
   const breakEven = res.breakEven.map((b) => {
-    const member = memberLabel.get(b.memberId) ?? b.memberId;
-    const A = optionName.get(b.optionA) ?? b.optionA;
-    const B = optionName.get(b.optionB) ?? b.optionB;
-    const ca = comparison.find((r) => r.memberId === b.memberId && r.optionId === b.optionA)!;
-    const cb = comparison.find((r) => r.memberId === b.memberId && r.optionId === b.optionB)!;
-    const better = ca.exact.certaintyEquivalentPot >= cb.exact.certaintyEquivalentPot ? A : B;
-    if (b.status === 'identical') return `For ${member}, ${A} and ${B} give the same pot on every path, so neither is preferred at any λ.`;
-    if (b.status === 'found' && b.lambda !== null) {
-      return `For ${member}, ${A} and ${B} have equal certainty-equivalent pots at λ = ${formatLambda(b.lambda)}. At the chosen λ = ${lam}, ${better} has the higher certainty-equivalent pot.`;
-    }
-    return `For ${member}, ${A} and ${B} have no break-even λ between ${BREAK_EVEN_RANGE[0]} and ${BREAK_EVEN_RANGE[1]}; at the chosen λ = ${lam}, ${better} has the higher certainty-equivalent pot.`;
+    const rows = ranked.get(b.memberId)!;
+    const rankOf = (id: string) => rows.find((r) => r.optionId === id)!.rank;
+    return breakEvenSentence({
+      memberLabel: memberLabel.get(b.memberId) ?? b.memberId,
+      a: { name: optionName.get(b.optionA) ?? b.optionA, pots: sampleOf(base, b.optionA, b.memberId) },
+      b: { name: optionName.get(b.optionB) ?? b.optionB, pots: sampleOf(base, b.optionB, b.memberId) },
+      crossings: crossingsOf(b),
+      lambda,
+      leaderAtLambda: rankOf(b.optionA) < rankOf(b.optionB) ? 'a' : 'b',
+    });
   });
 
   const sample = run.result.sample;
@@ -173,15 +167,15 @@ export function buildReportContent(
     schemeName: opts.schemeName,
     currency: cur,
     createdAt: opts.createdAt.toISOString(),
-    createdOn: formatDate(opts.createdAt),
+    createdOn: date(opts.createdAt),
     runId: run.id,
     runFinishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
     draft: run.assumptionsDraft,
     assumptionSet: {
       version: set.version,
       status: set.status,
-      setAt: formatDate(set.setAt),
-      approvedOn: set.approvedAt ? formatDate(set.approvedAt) : null,
+      setAt: date(set.setAt),
+      approvedOn: set.approvedAt ? date(set.approvedAt) : null,
       approvedBy: opts.approvedBy,
     },
     lambda,
@@ -189,31 +183,31 @@ export function buildReportContent(
     ceBasis: lambda === run.riskAversion ? 'run' : 'sample',
     percentiles: res.percentiles,
     assumptions: {
-      inflation: formatPercent(sc.inflation, 2),
-      annuity: `${formatPercent(sc.annuity.realRate, 2)} a year real, over ${sc.annuity.years} years`,
-      annuityFactor: res.annuityFactor.toFixed(2),
-      targetReplacementRatio: formatPercent(sc.targetReplacementRatio, 0),
+      inflation: percent(sc.inflation, 'rate'),
+      annuity: `${percent(sc.annuity.realRate, 'rate')} a year real, over ${sc.annuity.years} years`,
+      annuityFactor: decimal(res.annuityFactor, 2),
+      targetReplacementRatio: percent(sc.targetReplacementRatio, 'rate'),
       funds: sc.funds.map((f) => ({
         name: fundName.get(f.id) ?? f.name,
-        expectedReturn: formatPercent(f.expectedReturn, 2),
-        volatility: formatPercent(f.volatility, 2),
-        annualCharge: formatPercent(f.annualCharge, 2),
+        expectedReturn: percent(f.expectedReturn, 'rate'),
+        volatility: percent(f.volatility, 'rate'),
+        annualCharge: percent(f.annualCharge, 'rate'),
       })),
       correlations: {
         names: sc.funds.map((f) => fundName.get(f.id) ?? f.name),
-        rows: (sc.correlations ?? sc.funds.map((_, i) => sc.funds.map((__, j) => (i === j ? 1 : 0)))).map((row) => row.map((v) => v.toFixed(2))),
+        rows: (sc.correlations ?? sc.funds.map((_, i) => sc.funds.map((__, j) => (i === j ? 1 : 0)))).map((row) => row.map((v) => decimal(v, 2))),
       },
       members: sc.members.map((m) => ({
         label: memberLabel.get(m.id) ?? m.id,
         age: m.age,
         retirementAge: m.retirementAge,
-        salary: money(m.salary),
-        salaryGrowth: formatPercent(m.salaryGrowth, 2),
-        contributionRate: formatPercent(m.contributionRate, 1),
-        pot: money(m.pot),
+        salary: money(m.salary, cur, 'entered'),
+        salaryGrowth: percent(m.salaryGrowth, 'rate'),
+        contributionRate: percent(m.contributionRate, 'rate'),
+        pot: money(m.pot, cur, 'entered'),
       })),
       stress: snap.stress
-        ? `A stress variant was also run: ${fundName.get(snap.stress.fundId) ?? snap.stress.fundId} falls ${formatPercent(snap.stress.fall, 0)} in the year starting ${snap.stress.yearsBeforeRetirement} year(s) before retirement.`
+        ? `A stress variant was also run: ${fundName.get(snap.stress.fundId) ?? snap.stress.fundId} falls ${percent(snap.stress.fall, 'share')} in the year starting ${snap.stress.yearsBeforeRetirement} year(s) before retirement.`
         : null,
     },
     options: snap.options.map((o) => {
@@ -228,25 +222,31 @@ export function buildReportContent(
             yearsToRetirement: p.yearsToRetirement,
             weights: Object.entries(p.weights)
               .filter(([, w]) => w > 0)
-              .map(([id, w]) => ({ fund: fundName.get(id) ?? id, weight: formatPercent(w, 0) })),
+              .map(([id, w]) => ({ fund: fundName.get(id) ?? id, weight: percent(w, 'share'), fraction: w })),
           })),
       };
     }),
+    columns: comparisonColumns(lambda),
     comparison,
+    differences,
+    baseline: baselineSentence(
+      snap.options.map((o) => ({ optionId: o.id, name: o.name })).find((o) => o.optionId === baselineId),
+      baselineId,
+    ),
     breakEven,
     monteCarlo: {
       paths: res.paths,
       seed: res.seed,
       antithetic: res.antithetic,
       engineVersion: run.result.engineVersion,
-      sample: sample.kind === 'all' ? `every path (${sample.size})` : `${sample.size.toLocaleString('en-GB')} quantiles of the path distribution`,
+      sample: sample.kind === 'all' ? `every path (${count(sample.size)})` : `${count(sample.size)} quantiles of the path distribution`,
       lines: [
-        `${res.paths.toLocaleString('en-GB')} paths, seed ${res.seed}${res.antithetic ? ', antithetic pairs' : ''}, engine version ${run.result.engineVersion}.`,
+        `${count(res.paths)} paths, seed ${res.seed}${res.antithetic ? ', antithetic pairs' : ''}, engine version ${run.result.engineVersion}.`,
         'Every option and member saw the same market paths (common random numbers), so differences between options are not sampling noise between separate draws.',
-        'Standard errors: of the mean from the n − 1 sample variance; of the 50th and 5th percentiles from order-statistic intervals; of the probability as √(p(1 − p)/n).',
+        'Standard errors: of the mean from the n − 1 sample variance; of the 50th and 5th percentiles from order-statistic intervals; of the probability as √(p(1 − p)/n); of the certainty-equivalent pot by the delta method.',
         lambda === run.riskAversion
           ? `Certainty equivalents at λ = ${lam} are the run's own, computed from every path.`
-          : `The run used λ = ${formatLambda(run.riskAversion)}; certainty equivalents at λ = ${lam} are computed from the stored sample of terminal pots (${sample.kind === 'all' ? 'every path' : `${sample.size} quantiles`}).`,
+          : `The run used λ = ${lambdaText(run.riskAversion)}; certainty equivalents at λ = ${lam} are computed from the stored sample of terminal pots (${sample.kind === 'all' ? 'every path' : `${count(sample.size)} quantiles`}).`,
         'The same inputs and seed reproduce these figures exactly.',
       ],
     },

@@ -1,6 +1,5 @@
 import { buildReportContent, type RunForReport } from './content';
-import { CAUTION_TEXT } from './caution';
-import { formatDate, formatLambda } from './format';
+import { CAUTION_TEXT, count, date, lambda as lambdaText, plural } from '../../figures';
 import { contentWidth, factRows, finishPages, heading, MARGIN, newDocument, noticeBox, paragraph, PDF_COLORS, table, toBuffer } from './draw';
 
 /**
@@ -32,6 +31,7 @@ export type DecisionRecord = {
     draft: boolean;
     stress: string | null;
     lambda: string;
+    /** As the board report prints them (figures/); the standard errors read "± …". */
     figures: { member: string; option: string; median: string; medianSe: string; chance: string; chanceSe: string; ce: string }[];
   }[];
   reports: { title: string; runId: string; createdOn: string; lambda: string }[];
@@ -67,7 +67,7 @@ export type DecisionRecordInput = {
   nextReviewDue: string | null;
 };
 
-const approvalsText = (a: { name: string; at: Date }[]) => (a.length ? a.map((x) => `${x.name}, ${formatDate(x.at)}`).join('; ') : 'approved before approvals were recorded one by one');
+const approvalsText = (a: { name: string; at: Date }[]) => (a.length ? a.map((x) => `${x.name}, ${date(x.at)}`).join('; ') : 'approved before approvals were recorded one by one');
 
 /** The sentence that states the decision, as the record and the screen print it. */
 export function decisionSentence(kind: 'option' | 'no_change' | null, chosen: { name: string; version: number } | null, currentDefault: { name: string | null } | null): string {
@@ -83,13 +83,13 @@ export function buildDecisionRecord(i: DecisionRecordInput): DecisionRecord {
     title: r.title,
     schemeName: i.schemeName,
     final: !!r.signedOffAt,
-    generatedOn: formatDate(i.now),
-    signedOffOn: r.signedOffAt ? formatDate(r.signedOffAt) : null,
+    generatedOn: date(i.now),
+    signedOffOn: r.signedOffAt ? date(r.signedOffAt) : null,
     decision: { kind: r.decision, sentence: decisionSentence(r.decision, i.chosen, i.currentDefault) },
-    lambda: { value: r.riskAversion === null ? null : formatLambda(r.riskAversion), calibration: r.lambdaCalibration },
+    lambda: { value: r.riskAversion === null ? null : lambdaText(r.riskAversion), calibration: r.lambdaCalibration },
     reasons: r.reasons,
     dissent: r.dissent,
-    assumptionSet: i.assumptionSet && { version: i.assumptionSet.version, setAt: formatDate(i.assumptionSet.setAt), approvals: approvalsText(i.assumptionSet.approvals) },
+    assumptionSet: i.assumptionSet && { version: i.assumptionSet.version, setAt: date(i.assumptionSet.setAt), approvals: approvalsText(i.assumptionSet.approvals) },
     optionVersions: i.optionVersions.map((v) => ({ name: v.name, version: v.version, approvals: approvalsText(v.approvals), chosen: v.id === i.chosenVersionId })),
     runs: i.runs.map((run) => {
       // The figures at the board's λ, computed by the board report's own rules (one source for every figure).
@@ -100,7 +100,7 @@ export function buildDecisionRecord(i: DecisionRecordInput): DecisionRecord {
         seed: c.monteCarlo.seed,
         paths: c.monteCarlo.paths,
         engineVersion: c.monteCarlo.engineVersion,
-        finishedOn: run.finishedAt ? formatDate(run.finishedAt) : null,
+        finishedOn: run.finishedAt ? date(run.finishedAt) : null,
         assumptionSetVersion: run.input.assumptionSet.version,
         draft: run.assumptionsDraft,
         stress: c.assumptions.stress,
@@ -108,18 +108,18 @@ export function buildDecisionRecord(i: DecisionRecordInput): DecisionRecord {
         figures: c.comparison.map((row) => ({
           member: row.memberLabel,
           option: row.optionName,
-          median: row.display.percentilesReal.p50 ?? 'n/a',
-          medianSe: row.standardErrors.p50Real,
+          median: row.display.medianReal,
+          medianSe: row.standardErrors.medianReal ?? '',
           chance: row.display.probabilityReachingTarget,
-          chanceSe: row.standardErrors.probabilityReachingTarget,
+          chanceSe: row.standardErrors.probabilityReachingTarget ?? '',
           ce: row.display.certaintyEquivalentPot,
         })),
       };
     }),
-    reports: i.reports.map((p) => ({ title: p.title, runId: p.runId, createdOn: formatDate(p.createdAt), lambda: formatLambda(p.riskAversion) })),
-    signOffs: i.signOffs.map((s) => ({ name: s.name, on: formatDate(s.at) })),
+    reports: i.reports.map((p) => ({ title: p.title, runId: p.runId, createdOn: date(p.createdAt), lambda: lambdaText(p.riskAversion) })),
+    signOffs: i.signOffs.map((s) => ({ name: s.name, on: date(s.at) })),
     quorum: i.quorum,
-    nextReviewDue: i.nextReviewDue ? formatDate(i.nextReviewDue) : null,
+    nextReviewDue: i.nextReviewDue ? date(i.nextReviewDue) : null,
     caution: CAUTION_TEXT,
   };
 }
@@ -151,7 +151,7 @@ export async function renderDecisionRecord(rec: DecisionRecord): Promise<Buffer>
   paragraph(doc, rec.dissent || 'None recorded.');
 
   heading(doc, 'Sign-off');
-  paragraph(doc, `The scheme requires ${rec.quorum} trustee${rec.quorum === 1 ? '' : 's'} to sign.`);
+  paragraph(doc, `The scheme requires ${plural(rec.quorum, 'trustee')} to sign.`);
   if (rec.signOffs.length) table(doc, [{ header: 'Trustee', width: 300 }, { header: 'Signed on', width: 195 }], rec.signOffs.map((s) => [s.name, s.on]), { size: 9.5 });
   else paragraph(doc, 'No trustee has signed yet.');
 
@@ -186,22 +186,20 @@ export async function renderDecisionRecord(rec: DecisionRecord): Promise<Buffer>
   for (const run of rec.runs) {
     paragraph(
       doc,
-      `Run ${run.id} · seed ${run.seed} · engine ${run.engineVersion} · ${run.paths.toLocaleString('en-GB')} paths · assumptions v${run.assumptionSetVersion}${run.draft ? ' (DRAFT)' : ''}${run.finishedOn ? ` · finished ${run.finishedOn}` : ''}`,
+      `Run ${run.id} · seed ${run.seed} · engine ${run.engineVersion} · ${count(run.paths)} paths · assumptions v${run.assumptionSetVersion}${run.draft ? ' (DRAFT)' : ''}${run.finishedOn ? ` · finished ${run.finishedOn}` : ''}`,
       { font: 'semibold', size: 9.5 },
     );
     if (run.stress) paragraph(doc, run.stress, { size: 8.5, color: PDF_COLORS.muted });
     table(
       doc,
       [
-        { header: 'Member', width: 95 },
-        { header: 'Option', width: 120 },
-        { header: 'Median pot', width: 75, align: 'right' },
-        { header: '± SE', width: 55, align: 'right' },
-        { header: 'Chance of target', width: 55, align: 'right' },
-        { header: '± SE', width: 40, align: 'right' },
+        { header: 'Member', width: 110 },
+        { header: 'Option', width: 150 },
+        { header: 'Median pot', width: 95, align: 'right' },
+        { header: 'Chance of target', width: 85, align: 'right' },
         { header: `CE pot (λ = ${run.lambda})`, width: 65, align: 'right' },
       ],
-      run.figures.map((f) => [f.member, f.option, f.median, f.medianSe, f.chance, f.chanceSe, f.ce]),
+      run.figures.map((f) => [f.member, f.option, [f.median, f.medianSe].filter(Boolean).join('\n'), [f.chance, f.chanceSe].filter(Boolean).join('\n'), f.ce]),
       { size: 8 },
     );
   }

@@ -1,22 +1,28 @@
 import path from 'node:path';
 import PDFDocument from 'pdfkit';
+import { colors, fundColour, type OptionStyle } from '../../constants/theme';
+import { FAN_LEGEND, moneyAxis, potAxisLabel, shareAxis, wholeTicks } from '../../figures';
 
 /**
  * Shared PDF drawing for Keelson's documents: fonts, page furniture, tables and charts drawn
- * as vector graphics. Colours follow constants/theme.ts.
+ * as vector graphics. Colours are the app's own (constants/theme.ts); axis ticks and chart words
+ * come from figures/, so a chart in a PDF reads like the same chart on screen.
  */
 export const PDF_COLORS = {
-  ink: '#1D2327',
-  muted: '#5B6770',
-  rule: '#E3DED6',
-  primary: '#1F4E4A',
-  primaryTint: '#E4EEEC',
-  accent: '#B7791F',
-  accentTint: '#F6ECDB',
-  danger: '#A63D32',
-  band90: '#CFE0DD',
-  band50: '#8DB3AD',
-  series: ['#1F4E4A', '#B7791F', '#5A4E9A', '#A63D32', '#3F7FA6', '#6B7F2A', '#8A6D5B', '#4F6D7A'],
+  ink: colors.ink,
+  muted: colors.mutedInk,
+  rule: colors.rule,
+  primary: colors.primary,
+  primaryTint: colors.primaryTint,
+  accent: colors.accent,
+  accentTint: colors.accentTint,
+  accentInk: colors.accentInk,
+  danger: colors.danger,
+  dangerTint: colors.dangerTint,
+  band90: colors.band90,
+  band50: colors.band50,
+  median: colors.median,
+  target: colors.target,
 } as const;
 
 const FONT_DIR = path.dirname(require.resolve('@expo-google-fonts/source-sans-3/package.json'));
@@ -104,7 +110,7 @@ export function noticeBox(doc: Doc, title: string, lines: string[], tone: 'cauti
   const h = textH + 14 + pad * 2;
   ensureSpace(doc, h + 6);
   const y = doc.y;
-  const [bg, border, titleColor] = tone === 'danger' ? ['#F7E4E1', PDF_COLORS.danger, PDF_COLORS.danger] : [PDF_COLORS.accentTint, PDF_COLORS.accent, '#7A4F12'];
+  const [bg, border, titleColor] = tone === 'danger' ? [PDF_COLORS.dangerTint, PDF_COLORS.danger, PDF_COLORS.danger] : [PDF_COLORS.accentTint, PDF_COLORS.accent, PDF_COLORS.accentInk];
   doc.save().roundedRect(MARGIN, y, w, h, 6).fillAndStroke(bg, border).restore();
   doc.font('semibold').fontSize(10).fillColor(titleColor).text(title, MARGIN + pad, y + pad, { width: w - pad * 2 });
   let ty = y + pad + 14;
@@ -159,26 +165,9 @@ export function table(doc: Doc, columns: Column[], rows: string[][], opts: { siz
   doc.font('regular').fontSize(10);
 }
 
-/** About five round tick values covering [0, max]. */
-export function niceTicks(max: number, count = 5): number[] {
-  if (!(max > 0)) return [0, 1];
-  const raw = max / count;
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw)!;
-  const ticks: number[] = [];
-  for (let v = 0; v <= max + step * 0.999; v += step) ticks.push(v);
-  return ticks;
-}
-
-export function compactMoney(v: number, symbol: string): string {
-  if (v >= 1e6) return `${symbol}${(v / 1e6).toFixed(v % 1e6 === 0 ? 0 : 1)}m`;
-  if (v >= 1e3) return `${symbol}${Math.round(v / 1e3)}k`;
-  return `${symbol}${Math.round(v)}`;
-}
-
 type Axes = { x: number; y: number; w: number; h: number; xMin: number; xMax: number; yMax: number };
 const sx = (a: Axes, v: number) => a.x + ((v - a.xMin) / (a.xMax - a.xMin || 1)) * a.w;
-const sy = (a: Axes, v: number) => a.y + a.h - (v / (a.yMax || 1)) * a.h;
+const sy = (a: Axes, v: number) => a.y + a.h - (Math.min(v, a.yMax) / (a.yMax || 1)) * a.h;
 
 function axes(doc: Doc, a: Axes, xLabel: string, yLabel: string, yTicks: number[], yFmt: (v: number) => string, xTicks: number[]) {
   doc.save().lineWidth(0.5).strokeColor(PDF_COLORS.rule);
@@ -196,54 +185,64 @@ function axes(doc: Doc, a: Axes, xLabel: string, yLabel: string, yTicks: number[
   doc.restore();
 }
 
-function xTicksFor(min: number, max: number): number[] {
-  const span = max - min;
-  const step = span <= 10 ? 1 : span <= 25 ? 5 : 10;
-  const out: number[] = [];
-  for (let v = Math.ceil(min / step) * step; v <= max; v += step) out.push(v);
-  if (out[0] !== min) out.unshift(min);
-  return out;
+/** A short line in an option's colour and dash, with its marker, as drawn beside its name. */
+export function optionSwatch(doc: Doc, x: number, y: number, style: OptionStyle) {
+  doc.save().lineWidth(2).strokeColor(style.colour);
+  if (style.dash.length) doc.dash(style.dash[0], { space: style.dash[1] ?? style.dash[0] });
+  doc.moveTo(x, y).lineTo(x + 22, y).stroke().undash();
+  const cx = x + 11;
+  const r = 3;
+  doc.fillColor(style.colour).strokeColor(style.colour).lineWidth(1.2);
+  if (style.marker === 'circle') doc.circle(cx, y, r).fill();
+  else if (style.marker === 'ring') doc.circle(cx, y, r).stroke();
+  else if (style.marker === 'square') doc.rect(cx - r, y - r, 2 * r, 2 * r).fill();
+  else if (style.marker === 'triangle') doc.polygon([cx, y - r - 0.5], [cx + r, y + r - 0.5], [cx - r, y + r - 0.5]).fill();
+  else if (style.marker === 'diamond') doc.polygon([cx, y - r - 1], [cx + r + 1, y], [cx, y + r + 1], [cx - r - 1, y]).fill();
+  else doc.moveTo(cx - r, y - r).lineTo(cx + r, y + r).moveTo(cx + r, y - r).lineTo(cx - r, y + r).stroke();
+  doc.restore();
 }
 
 /**
- * A fan chart: the 5–95 and 25–75 percentile bands of the pot in today's money by age, the
- * median in ochre, and the target pot as a dashed line.
+ * A fan chart: the outer and inner percentile bands of the pot in today's money by age, the
+ * median in ochre, and the target pot as a dashed line. `summary` is the chart's text alternative.
  */
 export function fanChart(
   doc: Doc,
-  opts: { title: string; ages: number[]; lowOuter: number[]; lowInner: number[]; median: number[]; highInner: number[]; highOuter: number[]; target: number | null; symbol: string; outerLabel: string; innerLabel: string; summary: string },
+  opts: { title: string; ages: number[]; bands: Record<string, number[]>; target: number | null; currency: string; yMax?: number; option?: OptionStyle; summary: string },
 ) {
   const totalH = 215;
   ensureSpace(doc, totalH);
   const top = doc.y;
-  doc.font('semibold').fontSize(10).fillColor(PDF_COLORS.ink).text(opts.title, MARGIN, top, { width: contentWidth(doc) });
+  const titleX = opts.option ? MARGIN + 28 : MARGIN;
+  if (opts.option) optionSwatch(doc, MARGIN, top + 6, opts.option);
+  doc.font('semibold').fontSize(10).fillColor(PDF_COLORS.ink).text(opts.title, titleX, top, { width: contentWidth(doc) - (titleX - MARGIN) });
   const a: Axes = { x: MARGIN + 56, y: top + 18, w: contentWidth(doc) - 66, h: 140, xMin: opts.ages[0], xMax: opts.ages[opts.ages.length - 1], yMax: 0 };
-  const yMax = Math.max(...opts.highOuter, opts.target ?? 0) * 1.05;
-  const ticks = niceTicks(yMax);
-  a.yMax = ticks[ticks.length - 1];
-  axes(doc, a, 'Age', "Pot in today's money", ticks, (v) => compactMoney(v, opts.symbol), xTicksFor(a.xMin, a.xMax));
+  const b = opts.bands;
+  const axis = moneyAxis(opts.yMax ?? Math.max(...b.p95, opts.target ?? 0) * 1.05, opts.currency);
+  a.yMax = axis.max;
+  axes(doc, a, 'Age (years)', potAxisLabel(opts.currency), axis.ticks, axis.label, wholeTicks(a.xMin, a.xMax));
   const band = (lo: number[], hi: number[], color: string) => {
     const pts: [number, number][] = [];
     opts.ages.forEach((age, i) => pts.push([sx(a, age), sy(a, hi[i])]));
     for (let i = opts.ages.length - 1; i >= 0; i--) pts.push([sx(a, opts.ages[i]), sy(a, lo[i])]);
     doc.save().polygon(...pts).fill(color).restore();
   };
-  band(opts.lowOuter, opts.highOuter, PDF_COLORS.band90);
-  band(opts.lowInner, opts.highInner, PDF_COLORS.band50);
-  doc.save().lineWidth(1.6).strokeColor(PDF_COLORS.accent);
-  opts.ages.forEach((age, i) => (i === 0 ? doc.moveTo(sx(a, age), sy(a, opts.median[i])) : doc.lineTo(sx(a, age), sy(a, opts.median[i]))));
+  band(b.p5, b.p95, PDF_COLORS.band90);
+  band(b.p25, b.p75, PDF_COLORS.band50);
+  doc.save().lineWidth(1.6).strokeColor(PDF_COLORS.median);
+  opts.ages.forEach((age, i) => (i === 0 ? doc.moveTo(sx(a, age), sy(a, b.p50[i])) : doc.lineTo(sx(a, age), sy(a, b.p50[i]))));
   doc.stroke().restore();
   if (opts.target !== null && opts.target > 0) {
     const y = sy(a, opts.target);
-    doc.save().lineWidth(0.9).dash(4, { space: 3 }).strokeColor(PDF_COLORS.ink).moveTo(a.x, y).lineTo(a.x + a.w, y).stroke().undash().restore();
+    doc.save().lineWidth(0.9).dash(4, { space: 3 }).strokeColor(PDF_COLORS.target).moveTo(a.x, y).lineTo(a.x + a.w, y).stroke().undash().restore();
   }
   // Legend and the chart's key figures as text.
   const ly = a.y + a.h + 26;
   const legend: [string, string][] = [
-    [PDF_COLORS.band90, opts.outerLabel],
-    [PDF_COLORS.band50, opts.innerLabel],
-    [PDF_COLORS.accent, 'median'],
-    [PDF_COLORS.ink, 'target pot (dashed)'],
+    [PDF_COLORS.band90, FAN_LEGEND.outer],
+    [PDF_COLORS.band50, FAN_LEGEND.inner],
+    [PDF_COLORS.median, FAN_LEGEND.median],
+    [PDF_COLORS.target, `${FAN_LEGEND.target} (dashed)`],
   ];
   let lx = a.x;
   doc.font('regular').fontSize(7.5).fillColor(PDF_COLORS.muted);
@@ -258,7 +257,7 @@ export function fanChart(
 }
 
 /** A glide path as stacked areas of fund weights against years to retirement (left: far from retirement). */
-export function glidePathChart(doc: Doc, opts: { title: string; years: number[]; series: { name: string; weights: number[] }[] }) {
+export function glidePathChart(doc: Doc, opts: { title: string; years: number[]; series: { name: string; colourIndex: number; weights: number[] }[] }) {
   const totalH = 170;
   ensureSpace(doc, totalH);
   const top = doc.y;
@@ -267,20 +266,21 @@ export function glidePathChart(doc: Doc, opts: { title: string; years: number[];
   const a: Axes = { x: MARGIN + 56, y: top + 18, w: contentWidth(doc) - 66 - 130, h: 110, xMin: 0, xMax: maxY, yMax: 1 };
   // Years to retirement decrease left to right; map v → maxY − v.
   const X = (ytr: number) => sx(a, maxY - ytr);
-  axes(doc, a, 'Years to retirement', 'Share of the pot', [0, 0.25, 0.5, 0.75, 1], (v) => `${Math.round(v * 100)}%`, []);
+  const share = shareAxis();
+  axes(doc, a, 'Years to retirement', 'Share of the pot', share.ticks, share.label, []);
   doc.font('regular').fontSize(7).fillColor(PDF_COLORS.muted);
-  for (const t of xTicksFor(0, maxY)) doc.text(String(t), X(t) - 15, a.y + a.h + 3, { width: 30, align: 'center' });
+  for (const t of wholeTicks(0, maxY)) doc.text(String(t), X(t) - 15, a.y + a.h + 3, { width: 30, align: 'center' });
   const cum = new Array(opts.years.length).fill(0) as number[];
-  opts.series.forEach((s, k) => {
+  opts.series.forEach((s) => {
     const lower = cum.slice();
     s.weights.forEach((w, i) => (cum[i] += w));
     const pts: [number, number][] = opts.years.map((ytr, i) => [X(ytr), sy(a, cum[i])]);
     for (let i = opts.years.length - 1; i >= 0; i--) pts.push([X(opts.years[i]), sy(a, lower[i])]);
-    doc.save().polygon(...pts).fill(PDF_COLORS.series[k % PDF_COLORS.series.length]).restore();
+    doc.save().polygon(...pts).fill(fundColour(s.colourIndex)).restore();
   });
   let ly = a.y;
-  opts.series.forEach((s, k) => {
-    doc.save().rect(a.x + a.w + 12, ly + 1, 9, 7).fill(PDF_COLORS.series[k % PDF_COLORS.series.length]).restore();
+  opts.series.forEach((s) => {
+    doc.save().rect(a.x + a.w + 12, ly + 1, 9, 7).fill(fundColour(s.colourIndex)).restore();
     doc.font('regular').fontSize(7.5).fillColor(PDF_COLORS.ink).text(s.name, a.x + a.w + 25, ly, { width: 110 });
     ly = doc.y + 3;
   });

@@ -1,7 +1,6 @@
-import { CAUTION_TEXT } from './caution';
+import { CAUTION_TEXT, moneyRoundingNote, roundFigures, STATEMENT_PERCENTILES, statementText, type StatementFigures } from '../../figures';
 import { toCsv } from './csv';
 import { contentWidth, finishPages, MARGIN, newDocument, noticeBox, paragraph, PDF_COLORS, toBuffer } from './draw';
-import { roundFigures, STATEMENT_PERCENTILES, STATEMENT_ROUNDING, statementText, type StatementFigures } from './statementText';
 
 /** Member statements as a PDF: one page per member (one file for many members). */
 export async function renderStatements(all: StatementFigures[]): Promise<Buffer> {
@@ -42,7 +41,10 @@ export async function renderStatements(all: StatementFigures[]): Promise<Buffer>
   return toBuffer(doc);
 }
 
-/** Statements as CSV: the rounded figures a member reads, the exact figures behind them, and the caution. */
+/**
+ * Statements as CSV: the figures a member reads (rounded by figures/, as numbers), the exact
+ * figures behind them, the rounding rule in words and the caution.
+ */
 export function statementCsv(all: StatementFigures[]): string {
   const P = STATEMENT_PERCENTILES;
   const header = [
@@ -71,8 +73,8 @@ export function statementCsv(all: StatementFigures[]): string {
     'rounding',
     'caution',
   ];
-  const rounding = `pots to nearest ${STATEMENT_ROUNDING.pot}, incomes to nearest ${STATEMENT_ROUNDING.income}; today's money`;
   const rows = all.map((f) => {
+    const rounding = `${moneyRoundingNote('pot', f.currency)} ${moneyRoundingNote('income', f.currency)} Today's money.`;
     const r = roundFigures(f);
     return [
       f.memberLabel,

@@ -1,53 +1,14 @@
 import { Router } from 'express';
-import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
-import { assumptionSets, fundAssumptions } from '../../db/schema';
-import { AnnuitySchema, FundSchema, ScenarioSchema, checkCorrelationMatrix } from '../../simulation';
-import { csvUpload } from '../uploads';
 import { contextOf } from '../services/context';
-import { listFunds } from '../services/funds';
-import { suggestFromHistory } from '../services/history';
-import { approve, compareSets, copyToDraft, createDraft, deleteDraft, getSet, latestApproved, listSets, updateDraft } from '../services/assumptions';
+import { AssumptionSetBody } from '../../schemas/assumptions';
+import { csvUpload } from '../uploads';
+import { suggestionForScheme } from '../services/history';
+import { approve, compareVersions, copyToDraft, createDraft, deleteDraft, getSet, listSets, updateDraft } from '../services/assumptions';
 
-const FundAssumptionBody = createInsertSchema(fundAssumptions)
-  .pick({ fundId: true, expectedReturn: true, volatility: true, annualCharge: true })
-  .extend({
-    fundId: z.uuid('is not a valid fund id'),
-    expectedReturn: FundSchema.shape.expectedReturn,
-    volatility: FundSchema.shape.volatility,
-    annualCharge: FundSchema.shape.annualCharge,
-  });
-
-/** The content of an assumption set; rates are fractions, `funds` order is the matrix order. */
-export const AssumptionSetBody = createInsertSchema(assumptionSets)
-  .pick({ setAt: true, rationale: true, inflation: true, salaryGrowth: true, annuityRealRate: true, annuityYears: true })
-  .extend({
-    setAt: z.iso.date('must be a date written YYYY-MM-DD'),
-    rationale: z.string().trim().max(4000, 'must be at most 4,000 characters').default(''),
-    inflation: ScenarioSchema.shape.inflation,
-    salaryGrowth: z.number().gt(-0.5, 'must be above -0.5 (a fraction: 0.03 = 3%)').lt(0.5, 'must be below 0.5 (a fraction: 0.03 = 3%)'),
-    annuityRealRate: AnnuitySchema.shape.realRate,
-    annuityYears: AnnuitySchema.shape.years,
-    funds: z.array(FundAssumptionBody).min(1, 'needs at least one fund').max(50, 'at most 50 funds'),
-    correlations: z.array(z.array(z.number('must be a number'))),
-  })
-  .strict()
-  .superRefine((b, ctx) => {
-    const seen = new Map<string, number>();
-    b.funds.forEach((f, i) => {
-      const earlier = seen.get(f.fundId);
-      if (earlier !== undefined) ctx.addIssue({ code: 'custom', path: ['funds', i, 'fundId'], message: `repeats the fund of funds.${earlier}` });
-      else seen.set(f.fundId, i);
-    });
-    if (b.correlations.length !== b.funds.length) {
-      ctx.addIssue({ code: 'custom', path: ['correlations'], message: `must have ${b.funds.length} rows, one per fund (got ${b.correlations.length})` });
-      return;
-    }
-    // The engine's own check: square, finite, within [−1, 1], symmetric, unit diagonal, positive semidefinite.
-    for (const p of checkCorrelationMatrix(b.correlations)) ctx.addIssue({ code: 'custom', path: ['correlations', ...p.path], message: p.message });
-  });
+// The request body is shared with the assumption-set form (schemas/assumptions.ts).
 
 const SetId = z.object({ setId: z.uuid('is not a valid id') });
 const Pair = z.object({ setId: z.uuid('is not a valid id'), otherId: z.uuid('is not a valid id') });
@@ -63,15 +24,12 @@ export function assumptionsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '', access: 'assumptions:edit' }, async (req, res) => {
     const body = AssumptionSetBody.parse(req.body);
-    res.status(201).json(await createDraft(ctx.db, req, body));
+    res.status(201).json(await createDraft(ctx.db, contextOf(req), body));
   });
 
   // Suggestions from a price history: computed and returned, never stored.
   defineRoute(r, M, { method: 'post', path: '/history', access: 'assumptions:edit' }, csvUpload('file'), async (req, res) => {
-    const schemeFunds = await listFunds(ctx.db, req.scheme!.id);
-    const suggestion = await suggestFromHistory(req.file!.buffer, req.file!.originalname, schemeFunds);
-    const current = await latestApproved(ctx.db, req.scheme!.id);
-    res.json({ ...suggestion, current: current ? { id: current.id, version: current.version, funds: current.funds, correlations: current.correlations } : null });
+    res.json(await suggestionForScheme(ctx.db, req.scheme!.id, { buffer: req.file!.buffer, name: req.file!.originalname }));
   });
 
   defineRoute(r, M, { method: 'get', path: '/:setId', access: 'assumptions:read' }, async (req, res) => {
@@ -82,18 +40,18 @@ export function assumptionsRouter(ctx: AppContext): Router {
   defineRoute(r, M, { method: 'put', path: '/:setId', access: 'assumptions:edit' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
     const body = AssumptionSetBody.parse(req.body);
-    res.json(await updateDraft(ctx.db, req, setId, body));
+    res.json(await updateDraft(ctx.db, contextOf(req), setId, body));
   });
 
   defineRoute(r, M, { method: 'delete', path: '/:setId', access: 'assumptions:edit' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
-    await deleteDraft(ctx.db, req, setId);
+    await deleteDraft(ctx.db, contextOf(req), setId);
     res.json({ ok: true });
   });
 
   defineRoute(r, M, { method: 'post', path: '/:setId/drafts', access: 'assumptions:edit' }, async (req, res) => {
     const { setId } = SetId.parse(req.params);
-    res.status(201).json(await copyToDraft(ctx.db, req, setId));
+    res.status(201).json(await copyToDraft(ctx.db, contextOf(req), setId));
   });
 
   defineRoute(r, M, { method: 'post', path: '/:setId/approve', access: 'assumptions:approve' }, async (req, res) => {
@@ -103,8 +61,7 @@ export function assumptionsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'get', path: '/:setId/compare/:otherId', access: 'assumptions:read' }, async (req, res) => {
     const { setId, otherId } = Pair.parse(req.params);
-    const [a, b] = await Promise.all([getSet(ctx.db, req.scheme!.id, setId), getSet(ctx.db, req.scheme!.id, otherId)]);
-    res.json(compareSets(a, b));
+    res.json(await compareVersions(ctx.db, req.scheme!.id, setId, otherId));
   });
 
   return r;

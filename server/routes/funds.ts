@@ -3,6 +3,7 @@ import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { funds } from '../../db/schema';
 import { createFund, deleteFund, listFunds, updateFund } from '../services/funds';
 
@@ -27,17 +28,17 @@ export function fundsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '', access: 'funds:edit' }, async (req, res) => {
     const body = FundBody.parse(req.body);
-    res.status(201).json(await createFund(ctx.db, req, body));
+    res.status(201).json(await createFund(ctx.db, contextOf(req), body));
   });
 
   defineRoute(r, M, { method: 'patch', path: '/:fundId', access: 'funds:edit' }, async (req, res) => {
     const { fundId } = FundId.parse(req.params);
-    res.json(await updateFund(ctx.db, req, fundId, FundPatch.parse(req.body)));
+    res.json(await updateFund(ctx.db, contextOf(req), fundId, FundPatch.parse(req.body)));
   });
 
   defineRoute(r, M, { method: 'delete', path: '/:fundId', access: 'funds:edit' }, async (req, res) => {
     const { fundId } = FundId.parse(req.params);
-    await deleteFund(ctx.db, req, fundId);
+    await deleteFund(ctx.db, contextOf(req), fundId);
     res.json({ ok: true });
   });
 

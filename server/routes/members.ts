@@ -3,6 +3,7 @@ import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { illustrativeMembers } from '../../db/schema';
 import { MemberSchema } from '../../simulation';
 import { csvUpload } from '../uploads';
@@ -44,17 +45,17 @@ export function membersRouter(ctx: AppContext): Router {
   });
 
   defineRoute(r, I, { method: 'post', path: '', access: 'members:edit' }, async (req, res) => {
-    res.status(201).json(await createIllustrative(ctx.db, req, IllustrativeBody.parse(req.body)));
+    res.status(201).json(await createIllustrative(ctx.db, contextOf(req), IllustrativeBody.parse(req.body)));
   });
 
   defineRoute(r, I, { method: 'put', path: '/:memberId', access: 'members:edit' }, async (req, res) => {
     const { memberId } = MemberId.parse(req.params);
-    res.json(await updateIllustrative(ctx.db, req, memberId, IllustrativeBody.parse(req.body)));
+    res.json(await updateIllustrative(ctx.db, contextOf(req), memberId, IllustrativeBody.parse(req.body)));
   });
 
   defineRoute(r, I, { method: 'delete', path: '/:memberId', access: 'members:edit' }, async (req, res) => {
     const { memberId } = MemberId.parse(req.params);
-    await deleteIllustrative(ctx.db, req, memberId);
+    await deleteIllustrative(ctx.db, contextOf(req), memberId);
     res.json({ ok: true });
   });
 
@@ -66,7 +67,7 @@ export function membersRouter(ctx: AppContext): Router {
   defineRoute(r, S, { method: 'post', path: '', access: 'membership:upload' }, csvUpload('file'), async (req, res) => {
     // Parsed on a worker thread: a large file takes seconds, which the API's event loop must not wait for.
     const rows = await parseMembershipCsvOffThread(req.file!.buffer);
-    res.status(201).json(await replaceMembership(ctx.db, req, rows, { name: req.file!.originalname, buffer: req.file!.buffer }));
+    res.status(201).json(await replaceMembership(ctx.db, contextOf(req), rows, { name: req.file!.originalname, buffer: req.file!.buffer }));
   });
 
   return r;

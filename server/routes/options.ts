@@ -1,31 +1,13 @@
 import { Router } from 'express';
-import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
-import { optionVersions } from '../../db/schema';
-import { GlidePointSchema } from '../../simulation';
 import { contextOf } from '../services/context';
+import { OptionBody } from '../../schemas/options';
 import { setCurrentDefault } from '../services/governance';
 import { approveVersion, compareVersions, createOption, discardDraft, getOption, getVersion, getVersionById, listOptions, setArchived, updateOption } from '../services/options';
 
-/** A default option's content: its glide path uses the engine's point schema (weights are fractions summing to 1). */
-export const OptionBody = createInsertSchema(optionVersions)
-  .pick({ name: true, description: true, glidePath: true })
-  .extend({
-    name: z.string().trim().min(1, 'must not be empty').max(120, 'must be at most 120 characters'),
-    description: z.string().trim().max(2000, 'must be at most 2,000 characters').default(''),
-    glidePath: z.array(GlidePointSchema).min(1, 'needs at least one point').max(30, 'at most 30 points'),
-  })
-  .strict()
-  .superRefine((o, ctx) => {
-    const seen = new Map<number, number>();
-    o.glidePath.forEach((p, i) => {
-      const earlier = seen.get(p.yearsToRetirement);
-      if (earlier !== undefined) ctx.addIssue({ code: 'custom', path: ['glidePath', i, 'yearsToRetirement'], message: `repeats ${p.yearsToRetirement} years to retirement (also point ${earlier})` });
-      else seen.set(p.yearsToRetirement, i);
-    });
-  });
+// The request body (a version's content) is shared with the glide-path form (schemas/options.ts).
 
 const Id = z.uuid('is not a valid id');
 const OptionId = z.object({ optionId: Id });

@@ -2,21 +2,11 @@ import { Router, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
+import { ReportBody } from '../../schemas/runs';
 import { createReport, emailReport, getReport, listReports, reportComparisonCsv, reportPdf } from '../services/reports';
 
 const Uuid = z.string().uuid('is not a valid id');
-
-export const ReportBody = z.strictObject({
-  runId: Uuid,
-  title: z
-    .string('must be text')
-    .trim()
-    .max(200, 'must be at most 200 characters')
-    // A title becomes a mail subject and a file name: one line only.
-    .refine((t) => !/[\u0000-\u001f\u007f]/.test(t), 'must be one line (no line breaks or control characters)')
-    .optional(),
-  riskAversion: z.number('must be a number').min(-5, 'must be at least -5').max(50, 'must be at most 50').optional(),
-});
 
 /** Sends a file for download (attachment) or for viewing in the browser (inline). */
 export function sendFile(res: Response, file: { filename: string; body: Buffer | string }, contentType: string, inline = false) {
@@ -36,7 +26,7 @@ export function reportsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '/reports', access: 'reports:create' }, async (req, res) => {
     const body = ReportBody.parse(req.body ?? {});
-    res.status(201).json(await createReport(ctx, req, body));
+    res.status(201).json(await createReport(ctx, contextOf(req), body));
   });
 
   defineRoute(r, M, { method: 'get', path: '/reports/:reportId', access: 'reports:read' }, async (req, res) => {
@@ -54,7 +44,7 @@ export function reportsRouter(ctx: AppContext): Router {
   });
 
   defineRoute(r, M, { method: 'post', path: '/reports/:reportId/email', access: 'reports:create' }, async (req, res) => {
-    res.status(202).json(await emailReport(ctx, req, Uuid.parse(req.params.reportId)));
+    res.status(202).json(await emailReport(ctx, contextOf(req), Uuid.parse(req.params.reportId)));
   });
 
   return r;

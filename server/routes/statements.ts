@@ -2,9 +2,10 @@ import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
+import { contextOf } from '../services/context';
 import { conflict } from '../errors';
 import { exportSummary, getExport, illustrativeStatement, listExports, requestExport, statementFile, statementSources } from '../services/statements';
-import { STATEMENT_PERCENTILES, STATEMENT_ROUNDING, WHAT_IF } from '../reports/statementText';
+import { moneyRoundingNote, STATEMENT_PERCENTILES, WHAT_IF } from '../../figures';
 import { sendFile } from './reports';
 
 const Uuid = z.string().uuid('is not a valid id');
@@ -24,7 +25,8 @@ export function statementsRouter(ctx: AppContext): Router {
   const M = '/schemes/:schemeId';
 
   defineRoute(r, M, { method: 'get', path: '/statement-sources', access: 'statements:export' }, async (req, res) => {
-    res.json({ ...(await statementSources(ctx.db, req.scheme!.id)), rounding: STATEMENT_ROUNDING, percentiles: STATEMENT_PERCENTILES, whatIf: WHAT_IF });
+    const currency = req.scheme!.currency;
+    res.json({ ...(await statementSources(ctx.db, req.scheme!.id)), rounding: { pot: moneyRoundingNote('pot', currency), income: moneyRoundingNote('income', currency) }, percentiles: STATEMENT_PERCENTILES, whatIf: WHAT_IF });
   });
 
   defineRoute(r, M, { method: 'get', path: '/statements/preview', access: 'statements:export' }, async (req, res) => {
@@ -44,7 +46,7 @@ export function statementsRouter(ctx: AppContext): Router {
 
   defineRoute(r, M, { method: 'post', path: '/statement-exports', access: 'statements:export' }, async (req, res) => {
     const body = ExportBody.parse(req.body ?? {});
-    res.status(202).json(await requestExport(ctx.db, ctx.pool, req, body));
+    res.status(202).json(await requestExport(ctx.db, ctx.pool, contextOf(req), body));
   });
 
   defineRoute(r, M, { method: 'get', path: '/statement-exports/:exportId', access: 'statements:export' }, async (req, res) => {

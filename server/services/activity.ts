@@ -3,7 +3,7 @@ import type { DbOrTx } from '../../db/client';
 import { auditEvents, users } from '../../db/schema';
 import type { AppContext } from '../context';
 import { describeEvent, type ActivityWords } from './activityText';
-import type { ServiceContext } from './context';
+import { schemeOf, type ServiceContext } from './context';
 
 type AuditRow = typeof auditEvents.$inferSelect;
 
@@ -22,7 +22,7 @@ export async function describeActivity(db: DbOrTx, rows: AuditRow[]): Promise<(A
 
 /** The scheme's audit trail, newest first: its own events plus sign-ins (which belong to no scheme) of the people on it. */
 export async function activity(app: AppContext, sc: ServiceContext, q: { limit: number; before?: number }) {
-  const schemeId = sc.schemeId!;
+  const schemeId = schemeOf(sc);
   const rows = await app.db
     .select()
     .from(auditEvents)

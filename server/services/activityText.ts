@@ -1,5 +1,5 @@
 import { ROLE_LABELS, type Role } from '../../constants/permissions';
-import { formatDate, formatLambda } from '../reports/format';
+import { date, lambda as lambdaText, plural } from '../../figures';
 
 /**
  * The activity log in words: one sentence per audit event ("Idris Pellow approved assumption
@@ -25,7 +25,6 @@ type Wording = (after: Values, before: Values, e: ActivityEvent) => Words;
 const str = (v: unknown) => (typeof v === 'string' ? v : v === null || v === undefined ? '' : String(v));
 const num = (v: unknown) => (typeof v === 'number' ? v : Number(v));
 const quoted = (v: unknown) => (str(v) ? `“${str(v)}”` : '');
-const plural = (n: number, one: string, many = `${one}s`) => `${n.toLocaleString('en-GB')} ${n === 1 ? one : many}`;
 const role = (v: unknown) => (ROLE_LABELS[v as Role] ?? str(v)).toLowerCase();
 const list = (v: unknown) => (Array.isArray(v) ? v.map(str) : []);
 const short = (id: string | null) => (id ? id.slice(0, 8) : '');
@@ -64,7 +63,7 @@ const SETTINGS_LABELS: Record<string, [string, (v: unknown) => string]> = {
   approvalsRequired: ['Approvals needed', str],
   signOffQuorum: ['Trustees to sign a review', str],
   reviewIntervalYears: ['Years between reviews', str],
-  nextReviewDue: ['Next review due', (v) => (v ? formatDate(str(v)) : 'not set')],
+  nextReviewDue: ['Next review due', (v) => (v ? date(str(v)) : 'not set')],
 };
 
 export const WORDING: Record<string, Wording> = {
@@ -126,7 +125,7 @@ export const WORDING: Record<string, Wording> = {
     what: `started a projection run of ${plural(list(a.options).length, 'option')} for ${plural(list(a.members).length, 'member')}`,
     details: [
       `Options: ${list(a.options).join(', ')}.`,
-      `${plural(num(a.paths), 'path')}, seed ${str(a.seed)}, λ ${formatLambda(num(a.riskAversion))}, assumptions v${str(a.assumptionSet)}${a.draft ? ' (draft)' : ''}${a.stress ? ', with a stress' : ''}.`,
+      `${plural(num(a.paths), 'path')}, seed ${str(a.seed)}, λ ${lambdaText(num(a.riskAversion))}, assumptions v${str(a.assumptionSet)}${a.draft ? ' (draft)' : ''}${a.stress ? ', with a stress' : ''}.`,
     ],
   }),
   'run.repeated': (_a, _b, e) => ({ what: `ran projection ${short(e.entityId)} again from its stored inputs to check it reproduces` }),
@@ -135,7 +134,7 @@ export const WORDING: Record<string, Wording> = {
     details: [a.engineVersion ? `Engine version ${str(a.engineVersion)}.` : '', a.reproduced === true ? 'It reproduced the original run exactly.' : a.reproduced === false ? 'It did NOT reproduce the original run.' : ''].filter(Boolean),
   }),
   'run.failed': (a, _b, e) => ({ what: `could not finish projection run ${short(e.entityId)}`, details: a.reason ? [`Reason: ${str(a.reason)}`] : [] }),
-  'report.created': (a) => ({ what: `made the board report ${quoted(a.title)}`, details: [`At λ ${formatLambda(num(a.riskAversion))}${a.draft ? ', on draft assumptions' : ''}.`] }),
+  'report.created': (a) => ({ what: `made the board report ${quoted(a.title)}`, details: [`At λ ${lambdaText(num(a.riskAversion))}${a.draft ? ', on draft assumptions' : ''}.`] }),
   'report.emailed': (a) => ({ what: `e-mailed a board report to ${plural(list(a.recipients).length, 'board reviewer')}`, details: [list(a.recipients).join(', ')] }),
   'statements.export-requested': (a) => ({ what: `asked for ${str(a.scope) === 'membership' ? 'membership' : 'illustrative'} member statements as ${str(a.format).toUpperCase()}`, href: '/statements' }),
   'statements.exported': (a) => ({ what: `finished a statement export of ${plural(num(a.members), 'member')}`, href: '/statements' }),
@@ -166,7 +165,7 @@ export const WORDING: Record<string, Wording> = {
   'review.signature-withdrawn': (_a, b) => ({ what: `withdrew their signature from the review ${quoted(b.title)}` }),
   'review.signed-off': (a) => ({
     what: `signed off the review ${quoted(a.title)}, completing the quorum`,
-    details: [str(a.decision), a.nextReviewDue ? `Next review due ${formatDate(str(a.nextReviewDue))}.` : ''].filter(Boolean),
+    details: [str(a.decision), a.nextReviewDue ? `Next review due ${date(str(a.nextReviewDue))}.` : ''].filter(Boolean),
   }),
 };
 

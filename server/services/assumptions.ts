@@ -1,13 +1,12 @@
 import { and, desc, eq, sql } from 'drizzle-orm';
-import { contextOf } from './context';
+import { schemeOf, type ServiceContext } from './context';
 import { alias } from 'drizzle-orm/pg-core';
-import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { assumptionSets, fundAssumptions, funds, users } from '../../db/schema';
 import { conflict, notFound } from '../errors';
 import { approvalsOf, recordApproval, withdrawApprovals, type Approval } from './approvals';
+import { date } from '../../figures';
 import { audit } from './audit';
-import type { ServiceContext } from './context';
 import { assertSchemeFunds } from './funds';
 import { settingsOf } from './governance';
 
@@ -166,8 +165,8 @@ async function nextVersion(tx: DbOrTx, schemeId: string): Promise<number> {
 }
 
 /** Creates a new draft from the given content (a copy of `basedOnId` when given). */
-export async function createDraft(db: DbOrTx, req: Request, content: AssumptionContent, basedOnId: string | null = null): Promise<AssumptionSetDetail> {
-  const schemeId = req.scheme!.id;
+export async function createDraft(db: DbOrTx, ctx: ServiceContext, content: AssumptionContent, basedOnId: string | null = null): Promise<AssumptionSetDetail> {
+  const schemeId = schemeOf(ctx);
   await assertContentFunds(db, schemeId, content);
   const id = await db.transaction(async (tx) => {
     const version = await nextVersion(tx, schemeId);
@@ -179,31 +178,31 @@ export async function createDraft(db: DbOrTx, req: Request, content: AssumptionC
         status: 'draft',
         ...contentColumns(content),
         basedOnId,
-        createdBy: req.user!.id,
-        updatedBy: req.user!.id,
+        createdBy: ctx.actor?.id ?? null,
+        updatedBy: ctx.actor?.id ?? null,
       })
       .returning({ id: assumptionSets.id });
     await writeContent(tx, row.id, content);
-    await audit(tx, contextOf(req), { action: 'assumptions.draft-created', entity: 'assumption_set', entityId: row.id, after: { version, basedOnId, ...content } });
+    await audit(tx, ctx, { action: 'assumptions.draft-created', entity: 'assumption_set', entityId: row.id, after: { version, basedOnId, ...content } });
     return row.id;
   });
   return getSet(db, schemeId, id);
 }
 
 /** A new draft copied from an existing version (approved or not). */
-export async function copyToDraft(db: DbOrTx, req: Request, fromId: string): Promise<AssumptionSetDetail> {
-  const from = await getSet(db, req.scheme!.id, fromId);
-  return createDraft(db, req, contentOf(from), from.id);
+export async function copyToDraft(db: DbOrTx, ctx: ServiceContext, fromId: string): Promise<AssumptionSetDetail> {
+  const from = await getSet(db, schemeOf(ctx), fromId);
+  return createDraft(db, ctx, contentOf(from), from.id);
 }
 
 function immutable(set: { version: number; approvedBy: string | null; approvedAt: Date | null }) {
-  const when = set.approvedAt ? set.approvedAt.toISOString().slice(0, 10) : 'an earlier date';
+  const when = set.approvedAt ? date(set.approvedAt) : 'an earlier date';
   return conflict(`Version ${set.version} was approved${set.approvedBy ? ` by ${set.approvedBy}` : ''} on ${when} and can no longer change. Start a new draft from it instead.`);
 }
 
 /** Replaces a draft's content. An approved set answers 409. */
-export async function updateDraft(db: DbOrTx, req: Request, id: string, content: AssumptionContent): Promise<AssumptionSetDetail> {
-  const schemeId = req.scheme!.id;
+export async function updateDraft(db: DbOrTx, ctx: ServiceContext, id: string, content: AssumptionContent): Promise<AssumptionSetDetail> {
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     // Lock the row so an approval cannot slip in between the check and the write.
     const [locked] = await tx.select({ id: assumptionSets.id }).from(assumptionSets).where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId))).for('update');
@@ -213,12 +212,12 @@ export async function updateDraft(db: DbOrTx, req: Request, id: string, content:
     await assertContentFunds(tx, schemeId, content);
     await tx
       .update(assumptionSets)
-      .set({ ...contentColumns(content), updatedAt: new Date(), updatedBy: req.user!.id })
+      .set({ ...contentColumns(content), updatedAt: new Date(), updatedBy: ctx.actor?.id ?? null })
       .where(and(eq(assumptionSets.id, id), eq(assumptionSets.status, 'draft')));
     await writeContent(tx, id, content);
     // An approval was of the content as it stood; a changed draft needs approving afresh.
     const approvalsWithdrawn = await withdrawApprovals(tx, 'assumption_set', id);
-    await audit(tx, contextOf(req), {
+    await audit(tx, ctx, {
       action: 'assumptions.draft-updated',
       entity: 'assumption_set',
       entityId: id,
@@ -230,15 +229,15 @@ export async function updateDraft(db: DbOrTx, req: Request, id: string, content:
 }
 
 /** Discards a draft. An approved set answers 409. */
-export async function deleteDraft(db: DbOrTx, req: Request, id: string): Promise<void> {
-  const schemeId = req.scheme!.id;
+export async function deleteDraft(db: DbOrTx, ctx: ServiceContext, id: string): Promise<void> {
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     const [locked] = await tx.select({ id: assumptionSets.id }).from(assumptionSets).where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId))).for('update');
     if (!locked) throw notFound('No such assumption set in this scheme.');
     const before = await getSet(tx, schemeId, id);
     if (before.status !== 'draft') throw immutable(before);
     await tx.delete(assumptionSets).where(eq(assumptionSets.id, id));
-    await audit(tx, contextOf(req), { action: 'assumptions.draft-discarded', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) } });
+    await audit(tx, ctx, { action: 'assumptions.draft-discarded', entity: 'assumption_set', entityId: id, before: { version: before.version, ...contentOf(before) } });
   });
 }
 
@@ -247,7 +246,7 @@ export async function deleteDraft(db: DbOrTx, req: Request, id: string): Promise
  * requires two approvals the first leaves it a draft; the last one makes it immutable.
  */
 export async function approve(db: DbOrTx, ctx: ServiceContext, id: string): Promise<AssumptionSetDetail> {
-  const schemeId = ctx.schemeId!;
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     const [locked] = await tx.select({ id: assumptionSets.id }).from(assumptionSets).where(and(eq(assumptionSets.id, id), eq(assumptionSets.schemeId, schemeId))).for('update');
     if (!locked) throw notFound('No such assumption set in this scheme.');
@@ -285,6 +284,12 @@ export type SetComparison = {
   funds: FundChange[];
   correlations: CorrelationChange[];
 };
+
+/** Two versions of the scheme's assumptions, compared. */
+export async function compareVersions(db: DbOrTx, schemeId: string, aId: string, bId: string): Promise<SetComparison> {
+  const [a, b] = await Promise.all([getSet(db, schemeId, aId), getSet(db, schemeId, bId)]);
+  return compareSets(a, b);
+}
 
 /** Side-by-side difference of two versions: every field, every fund and every correlation pair that differs. */
 export function compareSets(a: AssumptionSetDetail, b: AssumptionSetDetail): SetComparison {

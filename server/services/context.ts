@@ -35,3 +35,12 @@ export function contextOf(req: Request): ServiceContext {
     requestId: (req as Request & { id?: string }).id ?? null,
   };
 }
+
+/**
+ * The scheme a scheme-level service acts on. Routes under /schemes/:schemeId always set it;
+ * calling such a service without one is a programming error, not a user's mistake.
+ */
+export function schemeOf(ctx: ServiceContext): string {
+  if (!ctx.schemeId) throw new Error('this service acts on a scheme, but its context names none');
+  return ctx.schemeId;
+}

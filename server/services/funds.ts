@@ -1,6 +1,5 @@
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
-import { contextOf } from './context';
-import type { Request } from 'express';
+import { schemeOf, type ServiceContext } from './context';
 import type { DbOrTx } from '../../db/client';
 import { fundAssumptions, funds, optionVersions } from '../../db/schema';
 import { badRequest, conflict, notFound, type FieldIssue } from '../errors';
@@ -30,31 +29,31 @@ async function nameTaken(db: DbOrTx, schemeId: string, name: string, exceptId?: 
   return rows.some((r) => r.id !== exceptId);
 }
 
-export async function createFund(db: DbOrTx, req: Request, body: { name: string; assetClass: string }): Promise<FundRow> {
-  const schemeId = req.scheme!.id;
+export async function createFund(db: DbOrTx, ctx: ServiceContext, body: { name: string; assetClass: string }): Promise<FundRow> {
+  const schemeId = schemeOf(ctx);
   return db.transaction(async (tx) => {
     if (await nameTaken(tx, schemeId, body.name)) throw conflict(`This scheme already has a fund called "${body.name}".`);
     const [row] = await tx.insert(funds).values({ schemeId, name: body.name, assetClass: body.assetClass }).returning();
-    await audit(tx, contextOf(req), { action: 'fund.created', entity: 'fund', entityId: row.id, after: { name: row.name, assetClass: row.assetClass } });
+    await audit(tx, ctx, { action: 'fund.created', entity: 'fund', entityId: row.id, after: { name: row.name, assetClass: row.assetClass } });
     return row;
   });
 }
 
-export async function updateFund(db: DbOrTx, req: Request, id: string, body: { name?: string; assetClass?: string }): Promise<FundRow> {
-  const schemeId = req.scheme!.id;
+export async function updateFund(db: DbOrTx, ctx: ServiceContext, id: string, body: { name?: string; assetClass?: string }): Promise<FundRow> {
+  const schemeId = schemeOf(ctx);
   return db.transaction(async (tx) => {
     const [before] = await tx.select().from(funds).where(and(eq(funds.id, id), eq(funds.schemeId, schemeId))).for('update');
     if (!before) throw notFound('No such fund in this scheme.');
     if (body.name && (await nameTaken(tx, schemeId, body.name, id))) throw conflict(`This scheme already has a fund called "${body.name}".`);
     const [row] = await tx.update(funds).set(body).where(eq(funds.id, id)).returning();
-    await audit(tx, contextOf(req), { action: 'fund.updated', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass }, after: { name: row.name, assetClass: row.assetClass } });
+    await audit(tx, ctx, { action: 'fund.updated', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass }, after: { name: row.name, assetClass: row.assetClass } });
     return row;
   });
 }
 
 /** Removes a fund no assumption set and no default option refers to. */
-export async function deleteFund(db: DbOrTx, req: Request, id: string): Promise<void> {
-  const schemeId = req.scheme!.id;
+export async function deleteFund(db: DbOrTx, ctx: ServiceContext, id: string): Promise<void> {
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     const [before] = await tx.select().from(funds).where(and(eq(funds.id, id), eq(funds.schemeId, schemeId))).for('update');
     if (!before) throw notFound('No such fund in this scheme.');
@@ -69,6 +68,6 @@ export async function deleteFund(db: DbOrTx, req: Request, id: string): Promise<
       throw conflict(`"${before.name}" is used by ${why}, so it cannot be removed.`);
     }
     await tx.delete(funds).where(eq(funds.id, id));
-    await audit(tx, contextOf(req), { action: 'fund.removed', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass } });
+    await audit(tx, ctx, { action: 'fund.removed', entity: 'fund', entityId: id, before: { name: before.name, assetClass: before.assetClass } });
   });
 }

@@ -1,6 +1,8 @@
 import { historyStatistics, type HistoryStatistics } from '../../simulation/history';
 import { CsvProblems, numberCell, readCsv } from '../uploads';
-import type { FundRow } from './funds';
+import type { DbOrTx } from '../../db/client';
+import { latestApproved } from './assumptions';
+import { listFunds, type FundRow } from './funds';
 
 export const HISTORY_METHOD =
   'Monthly simple returns (Pₜ − Pₜ₋₁)/Pₜ₋₁ from month-end total-return index levels. Expected return: the mean monthly return compounded, (1 + m̄)¹² − 1. Volatility: √12 × the sample standard deviation of monthly returns (n − 1). Correlations: Pearson, of monthly returns.';
@@ -115,4 +117,11 @@ export async function suggestFromHistory(buffer: Buffer, fileName: string, schem
     thin: stats.months < THIN_HISTORY_MONTHS,
     fileName,
   };
+}
+
+/** A suggestion from an uploaded history, beside the scheme's latest approved figures (nothing is stored). */
+export async function suggestionForScheme(db: DbOrTx, schemeId: string, file: { buffer: Buffer; name: string }) {
+  const suggestion = await suggestFromHistory(file.buffer, file.name, await listFunds(db, schemeId));
+  const current = await latestApproved(db, schemeId);
+  return { ...suggestion, current: current ? { id: current.id, version: current.version, funds: current.funds, correlations: current.correlations } : null };
 }

@@ -1,9 +1,8 @@
 import { createHash } from 'node:crypto';
-import { contextOf } from './context';
+import { schemeOf, type ServiceContext } from './context';
 import { asc, eq, sql } from 'drizzle-orm';
 import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
-import type { Request } from 'express';
 import type { DbOrTx } from '../../db/client';
 import { schemeMembers } from '../../db/schema';
 import { CsvProblems, numberCell, readCsv } from '../uploads';
@@ -102,8 +101,8 @@ const BATCH = 2000;
  * old records and inserts the new ones in batches, with one audit event; any failure leaves
  * the old membership untouched.
  */
-export async function replaceMembership(db: DbOrTx, req: Request, rows: MembershipRowT[], file: { name: string; buffer: Buffer }) {
-  const schemeId = req.scheme!.id;
+export async function replaceMembership(db: DbOrTx, ctx: ServiceContext, rows: MembershipRowT[], file: { name: string; buffer: Buffer }) {
+  const schemeId = schemeOf(ctx);
   const sha256 = createHash('sha256').update(file.buffer).digest('hex');
   return db.transaction(async (tx) => {
     const [before] = await tx.select({ n: sql<number>`count(*)::int` }).from(schemeMembers).where(eq(schemeMembers.schemeId, schemeId));
@@ -112,7 +111,7 @@ export async function replaceMembership(db: DbOrTx, req: Request, rows: Membersh
     for (let i = 0; i < rows.length; i += BATCH) {
       await tx.insert(schemeMembers).values(rows.slice(i, i + BATCH).map((r) => ({ ...r, schemeId, uploadedAt })));
     }
-    await audit(tx, contextOf(req), { action: 'membership.replaced', entity: 'membership', entityId: schemeId, before: { count: before.n }, after: { count: rows.length, fileName: file.name, sha256 } });
+    await audit(tx, ctx, { action: 'membership.replaced', entity: 'membership', entityId: schemeId, before: { count: before.n }, after: { count: rows.length, fileName: file.name, sha256 } });
     return { count: rows.length, replaced: before.n, uploadedAt };
   });
 }

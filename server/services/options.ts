@@ -5,7 +5,7 @@ import { defaultOptions, optionVersions, reviewOptionVersions, runOptionVersions
 import { conflict, notFound } from '../errors';
 import { approvalsOf, recordApproval, withdrawApprovals, type Approval } from './approvals';
 import { audit } from './audit';
-import type { ServiceContext } from './context';
+import { schemeOf, type ServiceContext } from './context';
 import { assertSchemeFunds } from './funds';
 import { settingsOf } from './governance';
 
@@ -163,7 +163,7 @@ export async function getVersion(db: DbOrTx, schemeId: string, optionId: string,
 
 /** A new option, as a draft version 1 awaiting approval. */
 export async function createOption(db: DbOrTx, ctx: ServiceContext, input: OptionInput) {
-  const schemeId = ctx.schemeId!;
+  const schemeId = schemeOf(ctx);
   await checkFunds(db, schemeId, input);
   return db.transaction(async (tx) => {
     if (await nameTaken(tx, schemeId, input.name)) throw conflict(`There is already an option called "${input.name}".`);
@@ -189,7 +189,7 @@ async function lockOption(tx: DbOrTx, schemeId: string, id: string) {
  * otherwise the edit starts the next version as a draft based on the newest one.
  */
 export async function updateOption(db: DbOrTx, ctx: ServiceContext, id: string, input: OptionInput) {
-  const schemeId = ctx.schemeId!;
+  const schemeId = schemeOf(ctx);
   return db.transaction(async (tx) => {
     const { versions } = await lockOption(tx, schemeId, id);
     await checkFunds(tx, schemeId, input);
@@ -230,7 +230,7 @@ export async function updateOption(db: DbOrTx, ctx: ServiceContext, id: string, 
 
 /** A trustee other than its last editor approves a draft version (four-eyes; two approvals when the scheme says so). */
 export async function approveVersion(db: DbOrTx, ctx: ServiceContext, optionId: string, versionId: string) {
-  const schemeId = ctx.schemeId!;
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     await lockOption(tx, schemeId, optionId);
     const [v] = await tx
@@ -256,7 +256,7 @@ export async function approveVersion(db: DbOrTx, ctx: ServiceContext, optionId: 
 
 /** Discards a draft version that no run or review used; an option keeps at least one version. */
 export async function discardDraft(db: DbOrTx, ctx: ServiceContext, optionId: string, versionId: string) {
-  const schemeId = ctx.schemeId!;
+  const schemeId = schemeOf(ctx);
   await db.transaction(async (tx) => {
     const { versions } = await lockOption(tx, schemeId, optionId);
     const v = versions.find((x) => x.id === versionId);
@@ -273,7 +273,7 @@ export async function discardDraft(db: DbOrTx, ctx: ServiceContext, optionId: st
 
 /** Archives (or restores) an option: past runs keep their own snapshot, so nothing is deleted. */
 export async function setArchived(db: DbOrTx, ctx: ServiceContext, id: string, archived: boolean) {
-  const schemeId = ctx.schemeId!;
+  const schemeId = schemeOf(ctx);
   return db.transaction(async (tx) => {
     const { row: before, versions } = await lockOption(tx, schemeId, id);
     if (archived && (await settingsOf(tx, schemeId)).currentDefaultOptionId === id) {

@@ -8,18 +8,13 @@ import { queueMail, sendMail } from '../email/outbox';
 import { backgroundProducer } from '../jobs/background';
 import { conflict, notFound } from '../errors';
 import { audit } from './audit';
-import type { ServiceContext } from './context';
+import { schemeOf, type ServiceContext } from './context';
 import { emailKey, INVITATION_DAYS, issueLink, RESET_HOURS, revokeLinks } from './tokens';
 
 /**
  * People and roles on one scheme, for its administrator. Invitation and reset links go only to
  * the person, by e-mail through the outbox; they are never handed back to the administrator.
  */
-
-const schemeOf = (sc: ServiceContext) => {
-  if (!sc.schemeId) throw new Error('people services need a scheme');
-  return sc.schemeId;
-};
 
 export async function listPeople(app: AppContext, sc: ServiceContext) {
   const schemeId = schemeOf(sc);

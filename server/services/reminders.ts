@@ -4,7 +4,7 @@ import type { Db } from '../../db/client';
 import { reviewReminders, reviews, schemeSettings, schemes } from '../../db/schema';
 import { queueMail } from '../email/outbox';
 import { backgroundProducer } from '../jobs/background';
-import { formatDate } from '../reports/format';
+import { date, daysBetween, plural } from '../../figures';
 import { trusteesOf } from './governance';
 
 /**
@@ -18,11 +18,6 @@ import { trusteesOf } from './governance';
 export const REMINDER_STAGES = [90, 30, 0] as const;
 export type ReminderStage = (typeof REMINDER_STAGES)[number];
 
-/** Whole days from `from` to `to` (ISO dates). */
-export function daysBetween(from: string, to: string): number {
-  return Math.round((Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / 86_400_000);
-}
-
 /** The reminder that applies on `today` for a review due on `due`, or null when none does yet. */
 export function reminderStage(due: string, today: string): ReminderStage | null {
   const days = daysBetween(today, due);
@@ -34,13 +29,13 @@ export function reminderStage(due: string, today: string): ReminderStage | null 
 
 export function reminderText(m: { schemeName: string; trusteeName: string; due: string; today: string; lastReview: { title: string; signedOffAt: Date | null } | null }) {
   const days = daysBetween(m.today, m.due);
-  const when = days > 0 ? `in ${days} day${days === 1 ? '' : 's'}` : days === 0 ? 'today' : `${-days} day${days === -1 ? '' : 's'} ago`;
-  const subject = days >= 0 ? `Default option review due ${days === 0 ? 'today' : `in ${days} days`}: ${m.schemeName}` : `Default option review overdue: ${m.schemeName}`;
+  const when = days > 0 ? `in ${plural(days, 'day')}` : days === 0 ? 'today' : `${plural(-days, 'day')} ago`;
+  const subject = days >= 0 ? `Default option review due ${days === 0 ? 'today' : `in ${plural(days, 'day')}`}: ${m.schemeName}` : `Default option review overdue: ${m.schemeName}`;
   const text = [
     `Dear ${m.trusteeName},`,
     '',
-    `The trustees' review of the default investment option of ${m.schemeName} is ${days >= 0 ? 'due' : 'was due'} on ${formatDate(m.due)} (${when}).`,
-    m.lastReview ? `The last review, "${m.lastReview.title}", was signed off${m.lastReview.signedOffAt ? ` on ${formatDate(m.lastReview.signedOffAt)}` : ''}; its decision record is under Reviews in Keelson.` : '',
+    `The trustees' review of the default investment option of ${m.schemeName} is ${days >= 0 ? 'due' : 'was due'} on ${date(m.due)} (${when}).`,
+    m.lastReview ? `The last review, "${m.lastReview.title}", was signed off${m.lastReview.signedOffAt ? ` on ${date(m.lastReview.signedOffAt)}` : ''}; its decision record is under Reviews in Keelson.` : '',
     'To start the review, open Keelson, go to Reviews and open a new one. A review is complete when the scheme’s quorum of trustees has signed its decision.',
     '',
     'Every trustee of the scheme receives this reminder, 90 and 30 days before the date and on the day.',

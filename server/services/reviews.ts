@@ -16,13 +16,12 @@ import {
   users,
 } from '../../db/schema';
 import { badRequest, conflict, notFound, type FieldIssue } from '../errors';
-import type { StoredResult } from '../jobs/result';
 import { buildDecisionRecord, decisionSentence, renderDecisionRecord, type DecisionRecord } from '../reports/decisionRecord';
 import { approvalsOf } from './approvals';
 import { audit } from './audit';
+import { date } from '../../figures';
 import type { ServiceContext } from './context';
 import { currentDefaultOf, newestApproved, settingsOf, writeSettings } from './governance';
-import type { ScenarioSnapshot } from './scenario';
 import { slug } from './statements';
 
 /**
@@ -63,7 +62,7 @@ export function yearsLater(d: Date, years: number): string {
 const today = (now = new Date()) => now.toISOString().slice(0, 10);
 
 function finalised(r: Pick<ReviewRow, 'signedOffAt' | 'title'>) {
-  const when = r.signedOffAt ? r.signedOffAt.toISOString().slice(0, 10) : 'an earlier date';
+  const when = r.signedOffAt ? date(r.signedOffAt) : 'an earlier date';
   return conflict(`"${r.title}" was signed off on ${when} and can no longer change. Open a new review instead.`);
 }
 
@@ -197,7 +196,7 @@ export async function getReview(db: DbOrTx, schemeId: string, id: string) {
     assumptionSet: set ? { ...set, approvals: setApprovals } : null,
     optionVersions: g.versions.map((v) => ({ id: v.id, optionId: v.optionId, version: v.version, name: v.name, status: v.status, approvedAt: v.approvedAt, approvals: versionApprovals.get(v.id)! })),
     runs: g.runs.map((run) => {
-      const input = run.input as ScenarioSnapshot;
+      const input = run.input;
       return {
         id: run.id,
         status: run.status,
@@ -367,7 +366,7 @@ async function recordOf(db: DbOrTx, schemeId: string, row: ReviewRow, extra: { n
     chosenVersionId: row.chosenVersionId,
     runs: g.runs.map((gr) => {
       const run = runs.find((x) => x.id === gr.id)!;
-      return { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input as ScenarioSnapshot, result: run.result as StoredResult };
+      return { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result!, baselineOptionId: run.baselineOptionId };
     }),
     reports: g.reports,
     signOffs: g.signOffs,

@@ -1,5 +1,4 @@
-import type { Request } from 'express';
-import { contextOf } from './context';
+import { schemeOf, type ServiceContext } from './context';
 import type { Pool } from 'pg';
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
@@ -11,7 +10,7 @@ import type { StoredResult } from '../jobs/result';
 import type { ScenarioSnapshot } from './scenario';
 import { audit } from './audit';
 import { backgroundProducer, enqueue, EXPORT_QUEUE } from '../jobs/background';
-import { STATEMENT_MAX_PATHS, STATEMENT_PERCENTILES, WHAT_IF, statementText, type StatementFigures } from '../reports/statementText';
+import { STATEMENT_MAX_PATHS, STATEMENT_PERCENTILES, WHAT_IF, statementText, type StatementFigures } from '../../figures';
 import { renderStatements, statementCsv } from '../reports/statementPdf';
 
 type RunRow = typeof projectionRuns.$inferSelect;
@@ -22,9 +21,8 @@ export async function loadFinishedRun(db: Db, schemeId: string, runId: string): 
   const [run] = await db.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeId)));
   if (!run) throw notFound('No such run in this scheme.');
   if (run.status !== 'done' || !run.result) throw conflict('That run has not finished; statements and reports need a finished run.');
-  const result = run.result as StoredResult;
-  if (result.kind !== 'keelson-run-result' || !result.base?.result?.results) throw conflict('That run has no stored result in a form Keelson can read.');
-  return run as RunRow & { input: ScenarioSnapshot; result: StoredResult };
+  if (run.result.kind !== 'keelson-run-result' || !run.result.base?.result?.results) throw conflict('That run has no stored result in a form Keelson can read.');
+  return { ...run, result: run.result };
 }
 
 function optionOf(run: { input: ScenarioSnapshot }, optionId: string) {
@@ -45,7 +43,7 @@ export async function statementSources(db: Db, schemeId: string) {
   return {
     membershipCount: count,
     runs: rows.map((r) => {
-      const s = r.input as ScenarioSnapshot;
+      const s = r.input;
       return {
         id: r.id,
         finishedAt: r.finishedAt,
@@ -153,8 +151,8 @@ export function slug(s: string): string {
 export type ExportRequest = { runId: string; optionId: string; scope: 'illustrative' | 'membership'; format: 'pdf' | 'csv' };
 
 /** Creates an export and queues its job: row, job and audit event in one transaction. */
-export async function requestExport(db: Db, pool: Pool, req: Request, body: ExportRequest) {
-  const schemeId = req.scheme!.id;
+export async function requestExport(db: Db, pool: Pool, ctx: ServiceContext, body: ExportRequest) {
+  const schemeId = schemeOf(ctx);
   const run = await loadFinishedRun(db, schemeId, body.runId);
   optionOf(run, body.optionId);
   let memberCount = run.input.members.length;
@@ -165,9 +163,9 @@ export async function requestExport(db: Db, pool: Pool, req: Request, body: Expo
   }
   await backgroundProducer(pool);
   return db.transaction(async (tx) => {
-    const [row] = await tx.insert(statementExports).values({ schemeId, runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount, createdBy: req.user!.id }).returning();
+    const [row] = await tx.insert(statementExports).values({ schemeId, runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount, createdBy: ctx.actor?.id ?? null }).returning();
     await enqueue(pool, tx, EXPORT_QUEUE, { id: row.id });
-    await audit(tx, contextOf(req), { action: 'statements.export-requested', entity: 'statement_export', entityId: row.id, after: { runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount } });
+    await audit(tx, ctx, { action: 'statements.export-requested', entity: 'statement_export', entityId: row.id, after: { runId: run.id, optionId: body.optionId, scope: body.scope, format: body.format, memberCount } });
     return exportSummary(row);
   });
 }

@@ -5,8 +5,7 @@ import { assumptionSets, auditEvents, illustrativeMembers, reports } from '../..
 import { schemeOptions } from '../helpers/options';
 import { certaintyEquivalentPot } from '../../simulation';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
-import { formatLambda, formatMoney, formatPercent } from '../../server/reports/format';
-import { CAUTION_TEXT, DRAFT_TEXT } from '../../server/reports/caution';
+import { CAUTION_TEXT, DRAFT_TEXT, lambda as lambdaText, money, percent } from '../../figures';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 import { insertFinishedRun } from './route-examples/reports';
 import { download, pdfText, waitForRun } from './reports-helpers';
@@ -83,15 +82,16 @@ describe('board scenario reports', () => {
     expect(results).toHaveLength(4);
     for (const pair of results) {
       const a = pair.atRetirement;
-      for (const p of run.result.base.result.percentiles as number[]) expect(text, `p${p} of ${pair.optionId}`).toContain(formatMoney(a.percentiles.real[`p${p}`]));
-      expect(text).toContain(formatMoney(a.mean.real));
-      expect(text).toContain(formatMoney(a.certaintyEquivalent.realPot));
-      expect(text).toContain(formatPercent(a.certaintyEquivalent.realAnnualReturn, 2));
-      expect(text).toContain(formatPercent(a.probabilityReachingTarget, 0));
-      expect(text).toContain(formatMoney(a.standardError.real));
+      for (const p of run.result.base.result.percentiles as number[]) expect(text, `p${p} of ${pair.optionId}`).toContain(money(a.percentiles.real[`p${p}`], 'GBP'));
+      expect(text).toContain(money(a.mean.real, 'GBP'));
+      expect(text).toContain(money(a.certaintyEquivalent.realPot, 'GBP'));
+      expect(text).toContain(percent(a.certaintyEquivalent.realAnnualReturn, 'return'));
+      expect(text).toContain(percent(a.probabilityReachingTarget, 'chance'));
+      expect(text).toContain(money(a.standardError.real, 'GBP', 'standardError'));
     }
     for (const b of run.result.base.result.breakEven) {
-      if (b.status === 'found') expect(text).toContain(`equal certainty-equivalent pots at λ = ${formatLambda(b.lambda)}`);
+      if (b.status === 'found') expect(text).toContain(`when λ is below ${lambdaText(b.lambda)}`);
+      else expect(text).toContain('at every λ from −5 to 50');
     }
     expect(text).toContain(squash(CAUTION_TEXT));
     expect(text).not.toContain('DRAFT');
@@ -117,15 +117,25 @@ describe('board scenario reports', () => {
     const rows = parse(csv.body.toString('utf8'), { columns: true, relax_column_count: true }) as Record<string, string>[];
     const data = rows.filter((r) => r.option);
     expect(data).toHaveLength(4);
-    const results = run.result.base.result.results;
-    data.forEach((row, i) => {
-      const a = results[i].atRetirement;
-      expect(Number(row.real_pot_p50)).toBe(a.percentiles.real.p50);
-      expect(Number(row.real_pot_p5)).toBe(a.percentiles.real.p5);
-      expect(Number(row.certainty_equivalent_real_pot)).toBe(a.certaintyEquivalent.realPot);
-      expect(Number(row.probability_reaching_target)).toBe(a.probabilityReachingTarget);
+    const optionId = (name: string) => run.options.find((o: { name: string }) => o.name === name).id;
+    const memberId = (label: string) => run.members.find((m: { label: string }) => m.label === label).id;
+    for (const row of data) {
+      const a = run.result.base.result.results.find((p: { optionId: string; memberId: string }) => p.optionId === optionId(row.option) && p.memberId === memberId(row.member)).atRetirement;
+      expect(Number(row.real_pot_p50_exact)).toBe(a.percentiles.real.p50);
+      expect(Number(row.real_pot_p5_exact)).toBe(a.percentiles.real.p5);
+      expect(Number(row.certainty_equivalent_real_pot_exact)).toBe(a.certaintyEquivalent.realPot);
+      expect(Number(row.probability_reaching_target_exact)).toBe(a.probabilityReachingTarget);
+      expect(Number(row.real_pot_mean_standard_error_exact)).toBe(a.standardError.real);
       expect(Number(row.risk_aversion_lambda)).toBe(2);
-    });
+      // The text as printed sits beside the exact value, rounded by the one rule.
+      expect(row.real_pot_median_as_shown).toBe(money(a.percentiles.real.p50, 'GBP'));
+      expect(row.probability_reaching_target_as_shown).toBe(percent(a.probabilityReachingTarget, 'chance'));
+    }
+    // Ranked within each member, highest certainty-equivalent pot first.
+    for (const m of new Set(data.map((r) => r.member))) {
+      const ranks = data.filter((r) => r.member === m).map((r) => Number(r.certainty_equivalent_real_pot_exact));
+      expect(ranks).toEqual([...ranks].sort((x, y) => y - x));
+    }
     expect(csv.body.toString('utf8')).toContain(CAUTION_TEXT);
   });
 
@@ -133,15 +143,16 @@ describe('board scenario reports', () => {
     const r = await trustee.post(R(), { runId: run.id, riskAversion: 5 });
     expect(r.status).toBe(201);
     const got = await board.get(`${R()}/${r.body.id}`);
-    const pair = run.result.base.result.results[0];
+    const row = got.body.content.comparison[0];
+    const pair = run.result.base.result.results.find((p: { optionId: string; memberId: string }) => p.optionId === row.optionId && p.memberId === row.memberId);
     const sample = run.result.base.samples.find((x: { optionId: string; memberId: string }) => x.optionId === pair.optionId && x.memberId === pair.memberId);
     const expected = certaintyEquivalentPot(sample.realPots, 5);
-    expect(got.body.content.comparison[0].exact.certaintyEquivalentPot).toBe(expected);
+    expect(row.exact.certaintyEquivalentPot).toBe(expected);
     // More risk-averse ⇒ a lower certainty equivalent than at λ = 2.
     expect(expected).toBeLessThan(pair.atRetirement.certaintyEquivalent.realPot);
     const { text } = await pdfText((await download(board, `${R()}/${r.body.id}/pdf`)).body);
-    expect(text).toContain(formatMoney(expected));
-    expect(text).toContain('CE pot (λ = 5)');
+    expect(text).toContain(money(expected, 'GBP'));
+    expect(text).toContain('certainty equivalents at λ = 5');
   });
 
   it('marks a report from draft assumptions as DRAFT on every page', async () => {

@@ -6,6 +6,7 @@ import { createDb } from '../../db/client';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { enqueueRun, producerFor } from '../../server/jobs/queue';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
+import type { ScenarioSnapshot } from '../../server/services/scenario';
 
 // Poll the queue quickly in tests.
 process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
@@ -148,7 +149,8 @@ describe('projection runs', () => {
         seed: 1,
         paths: 100,
         riskAversion: 2,
-        input: { assumptionSet: {}, funds: [], options: [], members: [], scenario: { seed: 1, paths: 100, funds: [] }, stress: null },
+        // A stored input the engine cannot run, on purpose.
+        input: { assumptionSet: {}, funds: [], options: [], members: [], scenario: { seed: 1, paths: 100, funds: [] }, stress: null } as unknown as ScenarioSnapshot,
       })
       .returning();
     const { db, pool } = createDb(s.url, 2);

@@ -7,9 +7,7 @@ import { createDb } from '../../db/client';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { startBackgroundWorkers, type BackgroundWorkers } from '../../server/jobs/backgroundWorkers';
 import { linkSettings } from '../../server/auth/links';
-import { formatMoney, roundTo } from '../../server/reports/format';
-import { CAUTION_TEXT } from '../../server/reports/caution';
-import { STATEMENT_ROUNDING } from '../../server/reports/statementText';
+import { CAUTION_TEXT, money, moneyRoundingNote, roundMoney } from '../../figures';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 import { insertFinishedRun } from './route-examples/reports';
 import { download, eventually, pdfText, waitForRun } from './reports-helpers';
@@ -26,8 +24,8 @@ let midCareer: { id: string; label: string };
 
 const S = () => `/schemes/${s.schemeId}`;
 const squash = (t: string) => t.replace(/\s+/g, ' ');
-const pot = (v: number) => formatMoney(roundTo(v, STATEMENT_ROUNDING.pot));
-const income = (v: number) => formatMoney(roundTo(v, STATEMENT_ROUNDING.income));
+const pot = (v: number) => money(v, 'GBP', 'pot');
+const income = (v: number) => money(v, 'GBP', 'income');
 
 beforeAll(async () => {
   s = await startTestServer();
@@ -65,7 +63,7 @@ describe('plain-language member statements', () => {
     const r = await comms.get(`${S()}/statement-sources`);
     expect(r.status).toBe(200);
     expect(r.body.runs.map((x: { id: string }) => x.id)).toContain(run.id);
-    expect(r.body.rounding).toEqual(STATEMENT_ROUNDING);
+    expect(r.body.rounding).toEqual({ pot: moneyRoundingNote('pot', 'GBP'), income: moneyRoundingNote('income', 'GBP') });
     expect(r.body.membershipCount).toBe(40);
   });
 
@@ -108,8 +106,8 @@ describe('plain-language member statements', () => {
     const [row] = parse(csv.body.toString('utf8'), { columns: true }) as Record<string, string>[];
     expect(Number(row.typical_pot_p50_exact)).toBe(a.percentiles.real.p50);
     expect(Number(row.weak_pot_p10_exact)).toBe(a.percentiles.real.p10);
-    expect(Number(row.typical_pot_p50_rounded)).toBe(roundTo(a.percentiles.real.p50, STATEMENT_ROUNDING.pot));
-    expect(Number(row.strong_income_p90_rounded)).toBe(roundTo(a.realIncome.p90, STATEMENT_ROUNDING.income));
+    expect(Number(row.typical_pot_p50_rounded)).toBe(roundMoney(a.percentiles.real.p50, 'pot'));
+    expect(Number(row.strong_income_p90_rounded)).toBe(roundMoney(a.realIncome.p90, 'income'));
     expect(row.caution).toBe(CAUTION_TEXT);
   });
 
@@ -135,7 +133,7 @@ describe('plain-language member statements', () => {
     expect(rows).toHaveLength(40);
     for (const row of rows) {
       expect(row.member).toMatch(/^Member /);
-      expect(Number(row.typical_pot_p50_rounded)).toBe(roundTo(Number(row.typical_pot_p50_exact), STATEMENT_ROUNDING.pot));
+      expect(Number(row.typical_pot_p50_rounded)).toBe(roundMoney(Number(row.typical_pot_p50_exact), 'pot'));
       expect(Number(row.weak_pot_p10_exact)).toBeLessThanOrEqual(Number(row.typical_pot_p50_exact));
       expect(Number(row.typical_pot_p50_exact)).toBeLessThanOrEqual(Number(row.strong_pot_p90_exact));
     }

@@ -5,6 +5,7 @@ import { and, eq } from 'drizzle-orm';
 import type { Page } from 'playwright-core';
 import { assumptionSets, fundAssumptions, funds } from '../../db/schema';
 import { historyStatistics } from '../../simulation/history';
+import { percent } from '../../figures';
 import { startTestServer, type TestServer } from '../helpers/app';
 import { launch, PHONE, screenshot, signIn, WIDE } from './browser';
 
@@ -49,7 +50,7 @@ describe('assumptions from a price history, adopted and approved in the browser'
       const exp = expectedFromFixture();
       await expect(b.page.getByTestId('history-period').textContent()).resolves.toContain(`${exp.months} monthly returns`);
       const eq = exp.byName['Fernleigh Global Equity'];
-      const shown = `${Number((eq.annualReturn * 100).toFixed(2))}%`;
+      const shown = percent(eq.annualReturn, 'rate');
       const table = b.page.getByTestId('suggestions');
       await expect(table.textContent()).resolves.toContain(shown);
       await b.page.getByText('Growth of one unit').waitFor();
@@ -75,6 +76,41 @@ describe('assumptions from a price history, adopted and approved in the browser'
     expect(Math.abs(fa.expectedReturn - exp.annualReturn)).toBeLessThan(1e-6);
     expect(Math.abs(fa.volatility - exp.annualVolatility)).toBeLessThan(1e-6);
     expect(fa.annualCharge).toBe(0.002); // the charge is kept from v1
+  });
+
+  it('checks the draft form with the API’s own rules beside each field, and stores percentages without noise', async () => {
+    expect(draftId).not.toBe('');
+    const b = await launch(WIDE);
+    let requests = 0;
+    try {
+      await signIn(b.page, s.baseUrl, 'actuary@fernleigh.example');
+      await pickDemoScheme(b.page);
+      await b.page.goto(`${s.baseUrl}/assumptions/${draftId}`);
+      b.page.on('request', (r) => void (r.method() === 'PUT' && requests++));
+      const inflation = b.page.getByLabel('Inflation (%)');
+      await inflation.fill('abc');
+      await inflation.blur();
+      await b.page.getByText('enter a percentage, e.g. 2.5').waitFor();
+      // The engine's limit, checked in the browser by the same schema the API uses: no request is sent.
+      await inflation.fill('150');
+      await b.page.getByTestId('save-draft').click();
+      await b.page.getByText('must be below 1 (a fraction)').waitFor();
+      expect(requests).toBe(0);
+      await screenshot(b.page, 'assumptions-form-errors-wide');
+      await inflation.fill('2.5');
+      await b.page.getByLabel('Fernleigh Global Equity: Charge (%)').fill('0.45');
+      await b.page.getByTestId('save-draft').click();
+      await b.page.getByText('Draft saved.').waitFor();
+      expect(requests).toBe(1);
+    } finally {
+      await b.close();
+    }
+    const [draft] = await s.db.select().from(assumptionSets).where(eq(assumptionSets.id, draftId));
+    expect(draft.inflation).toBe(0.025);
+    const [equity] = await s.db.select().from(funds).where(and(eq(funds.schemeId, s.schemeId), eq(funds.name, 'Fernleigh Global Equity')));
+    const [fa] = await s.db.select().from(fundAssumptions).where(and(eq(fundAssumptions.assumptionSetId, draftId), eq(fundAssumptions.fundId, equity.id)));
+    // Exactly the double nearest 0.0045, not 0.45 / 100 = 0.0045000000000000005.
+    expect(fa.annualCharge).toBe(0.0045);
   });
 
   it('shows the suggestions on a phone with the table scrolling sideways', async () => {

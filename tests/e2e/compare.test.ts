@@ -34,6 +34,10 @@ describe('comparing default options', () => {
 
       const charts = page.getByTestId('fan-chart');
       expect(await charts.count()).toBe(4);
+      // The chance of reaching the target, one bar per option (react-native-chart-kit), with its figures as text.
+      await page.getByTestId('chance-chart').waitFor();
+      expect(await page.getByTestId('chance-chart-text').innerText()).toMatch(/^(.+ \d+%; ){3}.+ \d+%\.$/);
+      expect(await page.getByTestId('differences').innerText()).toMatch(/percentage point/);
       const text = await page.getByTestId('fan-chart-text').first().innerText();
       expect(text).toMatch(/median £[\d,]+/);
       const ranked = page.getByTestId('ranked-option');
@@ -44,15 +48,18 @@ describe('comparing default options', () => {
       await screenshot(page, 'compare-wide');
 
       const sentence = page.getByTestId('break-even-sentence');
+      // One sentence for the top-ranked option against each other one.
+      const sentences = async () => (await sentence.allInnerTexts()).join(' ');
+      expect(await sentence.count()).toBe(3);
       const firstAt2 = await ranked.first().innerText();
-      const sentenceAt2 = await sentence.innerText();
+      const sentenceAt2 = await sentences();
       expect(sentenceAt2).toMatch(/ranks above/);
       await page.getByRole('button', { name: 'λ 0', exact: true }).click();
       await page.getByText('Options ranked at λ = 0').waitFor();
-      const sentenceAt0 = await sentence.innerText();
+      const sentenceAt0 = await sentences();
       await page.getByRole('button', { name: 'λ 8', exact: true }).click();
       await page.getByText('Options ranked at λ = 8').waitFor();
-      const sentenceAt8 = await sentence.innerText();
+      const sentenceAt8 = await sentences();
       const firstAt8 = await ranked.first().innerText();
       // A risk-neutral board and a strongly averse one should not rank the demo options alike.
       expect(new Set([sentenceAt0, sentenceAt2, sentenceAt8]).size, `${sentenceAt0} | ${sentenceAt2} | ${sentenceAt8}`).toBeGreaterThan(1);

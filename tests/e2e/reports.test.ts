@@ -1,8 +1,7 @@
 import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
-import { formatMoney, roundTo } from '../../server/reports/format';
-import { STATEMENT_ROUNDING } from '../../server/reports/statementText';
+import { money } from '../../figures';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 import { finishedSchemeRun } from '../api/reports-helpers';
 import { launch, PHONE, screenshot, signIn, WIDE } from './browser';
@@ -45,7 +44,7 @@ describe('reports and statements in the browser', () => {
         // The first option and the youngest member are chosen first; the preview states the run's median, rounded.
         const firstMember = run.members[0];
         const pair = run.result.base.result.results.find((r: { optionId: string; memberId: string }) => r.optionId === run.options[0].id && r.memberId === firstMember.id);
-        await preview.getByText(`In a typical case, your pot could be about ${formatMoney(roundTo(pair.atRetirement.percentiles.real.p50, STATEMENT_ROUNDING.pot))}.`, { exact: false }).waitFor();
+        await preview.getByText(`In a typical case, your pot could be about ${money(pair.atRetirement.percentiles.real.p50, 'GBP', 'pot')}.`, { exact: false }).waitFor();
         // Choose another member: the wording follows.
         await b.page.getByRole('radio', { name: 'Mid career' }).click();
         await preview.getByText('This is for Mid career').waitFor();
@@ -74,7 +73,7 @@ describe('reports and statements in the browser', () => {
         await b.page.getByRole('link', { name: new RegExp(reportTitle) }).click();
         await b.page.getByRole('heading', { name: reportTitle }).waitFor();
         await b.page.getByText(`Projection run ${run.id}`).waitFor();
-        const median = formatMoney(run.result.base.result.results[0].atRetirement.percentiles.real.p50);
+        const median = money(run.result.base.result.results[0].atRetirement.percentiles.real.p50, 'GBP');
         await b.page.getByText(median, { exact: true }).first().waitFor();
         expect(await b.page.getByTestId('caution-notice').count()).toBe(1);
         // A board reviewer reads and downloads, but does not send.

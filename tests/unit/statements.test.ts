@@ -1,10 +1,6 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { CAUTION_TEXT } from '../../server/reports/caution';
 import { csvField, toCsv } from '../../server/reports/csv';
-import { formatMoney, roundTo } from '../../server/reports/format';
-import { roundFigures, STATEMENT_ROUNDING, statementParagraphs, statementText, type StatementFigures } from '../../server/reports/statementText';
+import { CAUTION_TEXT, money, roundFigures, statementParagraphs, statementText, type StatementFigures } from '../../figures';
 
 const figures: StatementFigures = {
   memberLabel: 'Mid career',
@@ -41,25 +37,16 @@ function readingEase(text: string): number {
 }
 
 describe('statement wording', () => {
-  it.each([
-    [181_947.23, 1000, 182_000],
-    [181_499.99, 1000, 181_000],
-    [181_500, 1000, 182_000],
-    [7_749.99, 100, 7_700],
-    [7_750, 100, 7_800],
-    [-24_500, 1000, -25_000],
-  ])('rounds %d to the nearest %d as %d', (v, step, expected) => {
-    expect(roundTo(v, step)).toBe(expected);
-  });
-
-  it('rounds pots to the nearest £1,000 and incomes to the nearest £100, as stated in the notes', () => {
-    expect(STATEMENT_ROUNDING).toEqual({ pot: 1000, income: 100 });
+  it('rounds pots and incomes by the figures layer’s rules, as stated in the notes', () => {
     const r = roundFigures(figures);
     expect(r.pots).toEqual({ weak: 118_000, typical: 182_000, strong: 298_000 });
     expect(r.incomes).toEqual({ weak: 5_000, typical: 7_800, strong: 12_600 });
     const t = statementText(figures);
     expect(t.cases.map((c) => c.pot)).toEqual(['£118,000', '£182,000', '£298,000']);
-    expect(t.notes[0]).toBe('Pots are rounded to the nearest £1,000. Yearly incomes are rounded to the nearest £100.');
+    expect(t.notes[0]).toBe('Pots are rounded to the nearest £100 below £10,000 and to the nearest £1,000 from £10,000.');
+    expect(t.notes[1]).toBe('Yearly incomes are rounded to the nearest £10 below £1,000 and to the nearest £100 from £1,000.');
+    // A small pot keeps its hundreds.
+    expect(statementText({ ...figures, pots: { ...figures.pots, weak: 8_449.99 } }).cases[0].pot).toBe('£8,400');
     expect(t.changes[0]).toBe('Paying in 2% more of your pay each year could add about £25,000 to your pot in a typical case.');
     expect(t.changes[1]).toBe('Retiring 2 years later, at 69, could add about £19,000 to your pot in a typical case.');
   });
@@ -82,17 +69,9 @@ describe('statement wording', () => {
 
   it('states a change that lowers the pot as a fall, not a negative addition', () => {
     const t = statementText({ ...figures, whatIf: { ...figures.whatIf, laterRetirement: -3_200 } });
-    expect(t.changes[1]).toContain(`could take about ${formatMoney(3_000)} off your pot`);
+    expect(t.changes[1]).toContain(`could take about ${money(3_200, 'GBP')} off your pot`);
   });
 
-  it('uses the same caution wording as the app', () => {
-    const src = fs.readFileSync(path.resolve(__dirname, '../../components/CautionNotice.tsx'), 'utf8');
-    const m = /CAUTION_TEXT =\s*([\s\S]*?);\n/.exec(src);
-    expect(m, 'CAUTION_TEXT in components/CautionNotice.tsx').toBeTruthy();
-    // Evaluate the string-literal concatenation as written there.
-    const appText = (m![1].match(/'(?:[^'\\]|\\.)*'|"(?:[^"\\]|\\.)*"/g) ?? []).map((lit) => lit.slice(1, -1).replace(/\\'/g, "'")).join('');
-    expect(appText).toBe(CAUTION_TEXT);
-  });
 });
 
 describe('CSV (RFC 4180)', () => {

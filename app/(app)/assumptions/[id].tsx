@@ -1,93 +1,28 @@
 import { useMemo, useState } from 'react';
-import { Pressable, Text, TextInput, View, useWindowDimensions } from 'react-native';
+import { Pressable, Text, View, useWindowDimensions } from 'react-native';
+import { Controller, useFieldArray, useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useLocalSearchParams, useRouter } from 'expo-router';
-import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
+import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { DataTable } from '@/components/DataTable';
 import { CorrelationEditor } from '@/components/CorrelationEditor';
+import { NumberField, PercentField, showServerIssues, TextField } from '@/components/FormFields';
 import { StatusBadge } from '@/components/StatusBadge';
 import { ApprovalPanel } from '@/components/ApprovalPanel';
-import { day, parseNumber, parsePct, pct, pctInput } from '@/components/format';
-import { colors, MIN_TOUCH, radius, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
-import { ApiError, fieldError } from '@/hooks/api';
+import { date, percent } from '@/figures';
+import { AssumptionSetBody, type AssumptionSetInput } from '@/schemas/assumptions';
+import { colors, MIN_TOUCH, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
+import { ApiError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useFunds } from '@/hooks/useFunds';
 import { useSession } from '@/hooks/useSession';
-import { useApproveSet, useAssumptionSet, useDiscardDraft, useNewDraft, useSaveDraft, type AssumptionContent, type AssumptionSet } from '@/hooks/useAssumptions';
-
-const RATE_FIELDS = [
-  ['inflation', 'Inflation', 'Price inflation a year.'],
-  ['salaryGrowth', 'Salary growth', 'Nominal, a year; an illustrative member may override it.'],
-  ['annuityRealRate', 'Income conversion: real rate', 'Real interest rate that turns a pot into a level real income.'],
-] as const;
-const FUND_FIELDS = [
-  ['expectedReturn', 'Return'],
-  ['volatility', 'Volatility'],
-  ['annualCharge', 'Charge'],
-] as const;
-
-type Draft = { text: Record<string, string>; fundIds: string[]; names: Record<string, string>; correlations: number[][] };
-
-function toDraft(set: AssumptionSet): Draft {
-  const text: Record<string, string> = {
-    setAt: set.setAt,
-    rationale: set.rationale,
-    inflation: pctInput(set.inflation),
-    salaryGrowth: pctInput(set.salaryGrowth),
-    annuityRealRate: pctInput(set.annuityRealRate),
-    annuityYears: String(set.annuityYears),
-  };
-  for (const f of set.funds) for (const [k] of FUND_FIELDS) text[`${f.fundId}.${k}`] = pctInput(f[k]);
-  return { text, fundIds: set.funds.map((f) => f.fundId), names: Object.fromEntries(set.funds.map((f) => [f.fundId, f.name])), correlations: set.correlations.map((r) => r.slice()) };
-}
-
-/** The draft's text as API content, or the fields that are not numbers. */
-function fromDraft(d: Draft): { content?: AssumptionContent; errors: Record<string, string> } {
-  const errors: Record<string, string> = {};
-  const rate = (key: string, path: string) => {
-    const v = parsePct(d.text[key] ?? '');
-    if (v === null) errors[path] = 'enter a percentage, e.g. 2.5';
-    return v ?? 0;
-  };
-  const years = parseNumber(d.text.annuityYears ?? '');
-  if (years === null) errors.annuityYears = 'enter a whole number of years';
-  const content: AssumptionContent = {
-    setAt: (d.text.setAt ?? '').trim(),
-    rationale: d.text.rationale ?? '',
-    inflation: rate('inflation', 'inflation'),
-    salaryGrowth: rate('salaryGrowth', 'salaryGrowth'),
-    annuityRealRate: rate('annuityRealRate', 'annuityRealRate'),
-    annuityYears: years ?? 0,
-    funds: d.fundIds.map((fundId, i) => ({
-      fundId,
-      expectedReturn: rate(`${fundId}.expectedReturn`, `funds.${i}.expectedReturn`),
-      volatility: rate(`${fundId}.volatility`, `funds.${i}.volatility`),
-      annualCharge: rate(`${fundId}.annualCharge`, `funds.${i}.annualCharge`),
-    })),
-    correlations: d.correlations,
-  };
-  return Object.keys(errors).length ? { errors } : { content, errors };
-}
-
-function PctInput({ label, value, onChange, error }: { label: string; value: string; onChange: (s: string) => void; error?: string }) {
-  return (
-    <View style={{ width: 96 }}>
-      <TextInput
-        accessibilityLabel={label}
-        value={value}
-        onChangeText={onChange}
-        inputMode="decimal"
-        style={[type.body, { minHeight: MIN_TOUCH, textAlign: 'right', borderWidth: 1, borderColor: error ? colors.danger : '#B9B2A7', borderRadius: radius.sm, paddingHorizontal: space.sm, color: colors.ink, backgroundColor: colors.surface }]}
-      />
-      {error ? <Text style={[type.caption, { color: colors.danger }]}>{error}</Text> : null}
-    </View>
-  );
-}
+import { contentOf, useApproveSet, useAssumptionSet, useDiscardDraft, useNewDraft, useSaveDraft, type AssumptionContent, type AssumptionSet } from '@/hooks/useAssumptions';
 
 function Summary({ set }: { set: AssumptionSet }) {
   const figures: [string, string][] = [
-    ['Inflation', pct(set.inflation)],
-    ['Salary growth', pct(set.salaryGrowth)],
-    ['Income conversion', `${pct(set.annuityRealRate)} real over ${set.annuityYears} years`],
+    ['Inflation', percent(set.inflation, 'rate')],
+    ['Salary growth', percent(set.salaryGrowth, 'rate')],
+    ['Income conversion', `${percent(set.annuityRealRate, 'rate')} real over ${set.annuityYears} years`],
   ];
   return (
     <>
@@ -112,9 +47,9 @@ function Summary({ set }: { set: AssumptionSet }) {
           rowKey={(f) => f.fundId}
           columns={[
             { key: 'name', title: 'Fund', width: 160, render: (f) => f.name },
-            { key: 'r', title: 'Expected return', align: 'right', width: 120, render: (f) => pct(f.expectedReturn) },
-            { key: 'v', title: 'Volatility', align: 'right', width: 100, render: (f) => pct(f.volatility) },
-            { key: 'c', title: 'Annual charge', align: 'right', width: 110, render: (f) => pct(f.annualCharge, 3) },
+            { key: 'r', title: 'Expected return', align: 'right', width: 120, render: (f) => percent(f.expectedReturn, 'rate') },
+            { key: 'v', title: 'Volatility', align: 'right', width: 100, render: (f) => percent(f.volatility, 'rate') },
+            { key: 'c', title: 'Annual charge', align: 'right', width: 110, render: (f) => percent(f.annualCharge, 'rate') },
           ]}
         />
         <Text style={styles.muted}>Expected return and volatility of the annual simple nominal return; the charge is a fraction of the pot a year.</Text>
@@ -130,56 +65,24 @@ export default function AssumptionSetScreen() {
   const { id } = useLocalSearchParams<{ id: string }>();
   const router = useRouter();
   const { can } = useCurrentScheme();
-  const { width } = useWindowDimensions();
   const { data: set, isLoading, error } = useAssumptionSet(id);
   const { data: me } = useSession();
-  const { data: schemeFunds } = useFunds();
-  const save = useSaveDraft();
   const approve = useApproveSet();
-  const discard = useDiscardDraft();
   const newDraft = useNewDraft();
-  const [draft, setDraft] = useState<Draft | null>(null);
-  const [localErrors, setLocalErrors] = useState<Record<string, string>>({});
-  const [saved, setSaved] = useState(false);
   const [confirmApprove, setConfirmApprove] = useState(false);
-
-  const editing = !!set && set.status === 'draft' && can('assumptions:edit');
-  const d = useMemo(() => draft ?? (set && editing ? toDraft(set) : null), [draft, set, editing]);
-  const err = (path: string) => localErrors[path] ?? fieldError(save.error, path);
-  const setText = (key: string, v: string) => {
-    setSaved(false);
-    setDraft({ ...d!, text: { ...d!.text, [key]: v } });
-  };
 
   if (isLoading) return <Loading />;
   if (error || !set) return <Screen title="Assumptions"><Notice tone="error">{error?.message ?? 'Not found'}</Notice></Screen>;
-
-  const addable = (schemeFunds?.funds ?? []).filter((f) => d && !d.fundIds.includes(f.id));
-  const addFund = (fid: string, name: string) => {
-    const n = d!.fundIds.length;
-    const m = d!.correlations.map((r) => [...r, 0]);
-    m.push([...new Array<number>(n).fill(0), 1]);
-    setDraft({ ...d!, fundIds: [...d!.fundIds, fid], names: { ...d!.names, [fid]: name }, correlations: m, text: { ...d!.text, [`${fid}.expectedReturn`]: '', [`${fid}.volatility`]: '', [`${fid}.annualCharge`]: '' } });
-  };
-  const removeFund = (k: number) => {
-    setDraft({ ...d!, fundIds: d!.fundIds.filter((_, i) => i !== k), correlations: d!.correlations.filter((_, i) => i !== k).map((r) => r.filter((_, j) => j !== k)) });
-  };
-  const submit = () => {
-    const { content, errors } = fromDraft(d!);
-    setLocalErrors(errors);
-    if (!content) return;
-    save.mutate({ id: set.id, content }, { onSuccess: (s) => (setDraft(toDraft(s)), setSaved(true)) });
-  };
-  const serverOnly = save.error instanceof ApiError ? save.error.issues.filter((i) => !i.path.startsWith('funds') && !i.path.startsWith('correlations') && !(i.path in (d?.text ?? {}))) : [];
+  const editing = set.status === 'draft' && can('assumptions:edit');
 
   return (
     <Screen
       title={`Assumptions v${set.version}`}
-      subtitle={`Set at ${day(set.setAt)} · drafted by ${set.createdBy ?? '—'}${set.basedOnVersion ? ` from v${set.basedOnVersion}` : ''}`}
+      subtitle={`Set at ${date(set.setAt)} · drafted by ${set.createdBy ?? '—'}${set.basedOnVersion ? ` from v${set.basedOnVersion}` : ''}`}
       actions={<StatusBadge status={set.status} />}
     >
       {set.status === 'approved' ? (
-        <Notice tone="success">{`Approved by ${set.approvedBy ?? 'a former trustee'} on ${day(set.approvedAt)}. This version can no longer change; a change starts a new draft copied from it.`}</Notice>
+        <Notice tone="success">{`Approved by ${set.approvedBy ?? 'a former trustee'} on ${date(set.approvedAt)}. This version can no longer change; a change starts a new draft copied from it.`}</Notice>
       ) : (
         <Notice tone="warning">Draft: not yet approved. Results that use it are marked as draft.</Notice>
       )}
@@ -222,82 +125,140 @@ export default function AssumptionSetScreen() {
           </View>
         </Card>
       ) : null}
-
-      {!editing || !d ? (
-        <Summary set={set} />
-      ) : (
-        <>
-          {save.error && !(save.error instanceof ApiError && save.error.status === 400) ? <Notice tone="error">{save.error.message}</Notice> : null}
-          {save.error instanceof ApiError && save.error.status === 400 ? (
-            <Notice tone="error">
-              {`${save.error.message} ${serverOnly.map((i) => `${i.path}: ${i.message}`).join('; ')}`.trim()}
-            </Notice>
-          ) : null}
-          {saved ? <Notice tone="success">Draft saved.</Notice> : null}
-          <View style={{ flexDirection: width >= WIDE_BREAKPOINT ? 'row' : 'column', gap: space.lg, alignItems: 'flex-start' }}>
-            <Card title="Economy and income" style={{ flex: 1, alignSelf: 'stretch' }}>
-              <Field label="Set at (YYYY-MM-DD)" value={d.text.setAt} onChangeText={(v) => setText('setAt', v)} error={err('setAt')} />
-              {RATE_FIELDS.map(([key, label, hint]) => (
-                <Field key={key} label={`${label} (%)`} value={d.text[key]} onChangeText={(v) => setText(key, v)} error={err(key)} hint={hint} inputMode="decimal" />
-              ))}
-              <Field label="Income conversion: years of income" value={d.text.annuityYears} onChangeText={(v) => setText('annuityYears', v)} error={err('annuityYears')} inputMode="numeric" />
-              <Field label="Rationale" value={d.text.rationale} onChangeText={(v) => setText('rationale', v)} error={err('rationale')} multiline style={{ minHeight: 96, paddingTop: space.sm }} />
-            </Card>
-            <Card title="Funds (% a year)" style={{ flex: 1, alignSelf: 'stretch' }}>
-              <View style={{ flexDirection: 'row', gap: space.sm, justifyContent: 'flex-end' }}>
-                {FUND_FIELDS.map(([k, label]) => (
-                  <Text key={k} style={[type.caption, { width: 96, textAlign: 'right', color: colors.mutedInk }]}>
-                    {label}
-                  </Text>
-                ))}
-                <View style={{ width: 32 }} />
-              </View>
-              {d.fundIds.map((fid, i) => (
-                <View key={fid} testID={`fund-row-${i}`} style={{ gap: space.xs, paddingVertical: space.xs, borderBottomWidth: 1, borderColor: colors.rule }}>
-                  <Text style={styles.label}>{d.names[fid] ?? fid}</Text>
-                  <View style={{ flexDirection: 'row', gap: space.sm, justifyContent: 'flex-end', alignItems: 'flex-start' }}>
-                    {FUND_FIELDS.map(([k, label]) => (
-                      <PctInput key={k} label={`${d.names[fid]}: ${label} (%)`} value={d.text[`${fid}.${k}`] ?? ''} onChange={(v) => setText(`${fid}.${k}`, v)} error={err(`funds.${i}.${k}`)} />
-                    ))}
-                    <Pressable accessibilityRole="button" accessibilityLabel={`Take ${d.names[fid]} out of this set`} onPress={() => removeFund(i)} disabled={d.fundIds.length <= 1} style={{ width: 32, minHeight: MIN_TOUCH, alignItems: 'center', justifyContent: 'center' }}>
-                      <Text style={[type.title, { color: d.fundIds.length <= 1 ? colors.rule : colors.danger }]}>×</Text>
-                    </Pressable>
-                  </View>
-                  {err(`funds.${i}.fundId`) ? <Text style={[type.caption, { color: colors.danger }]}>{err(`funds.${i}.fundId`)}</Text> : null}
-                </View>
-              ))}
-              {addable.length ? (
-                <View style={{ gap: space.xs }}>
-                  <Text style={styles.muted}>Add a scheme fund to this set:</Text>
-                  <View style={styles.row}>
-                    {addable.map((f) => (
-                      <Button key={f.id} label={`+ ${f.name}`} kind="secondary" onPress={() => addFund(f.id, f.name)} />
-                    ))}
-                  </View>
-                </View>
-              ) : null}
-            </Card>
-          </View>
-          <Card title="Correlations">
-            <CorrelationEditor names={d.fundIds.map((f) => d.names[f] ?? f)} matrix={d.correlations} onChange={(m) => (setSaved(false), setDraft({ ...d, correlations: m }))} testID="correlations" />
-            {save.error instanceof ApiError
-              ? save.error.issues
-                  .filter((i) => i.path.startsWith('correlations'))
-                  .map((i, k) => (
-                    <Text key={k} role="alert" style={[type.caption, { color: colors.danger }]}>
-                      {i.path}: {i.message}
-                    </Text>
-                  ))
-              : null}
-          </Card>
-          <View style={styles.row}>
-            <Button label="Save draft" onPress={submit} busy={save.isPending} testID="save-draft" />
-            <Button label="Discard changes" kind="secondary" onPress={() => (setDraft(null), setLocalErrors({}), save.reset(), setSaved(false))} />
-            <Button label="Delete this draft" kind="danger" onPress={() => discard.mutate(set.id, { onSuccess: () => router.replace('/assumptions') })} busy={discard.isPending} />
-          </View>
-          {discard.error ? <Notice tone="error">{discard.error.message}</Notice> : null}
-        </>
-      )}
+      {editing ? <DraftEditor key={set.id} set={set} /> : <Summary set={set} />}
     </Screen>
+  );
+}
+
+const RATE_FIELDS = [
+  ['inflation', 'Inflation', 'Price inflation a year.'],
+  ['salaryGrowth', 'Salary growth', 'Nominal, a year; an illustrative member may override it.'],
+  ['annuityRealRate', 'Income conversion: real rate', 'Real interest rate that turns a pot into a level real income.'],
+] as const;
+const FUND_FIELDS = [
+  ['expectedReturn', 'Return'],
+  ['volatility', 'Volatility'],
+  ['annualCharge', 'Charge'],
+] as const;
+
+/**
+ * A draft's content as a form: react-hook-form checked by the API's own schema
+ * (schemas/assumptions.ts), rates typed as percentages and stored as exact fractions.
+ */
+function DraftEditor({ set }: { set: AssumptionSet }) {
+  const router = useRouter();
+  const { width } = useWindowDimensions();
+  const { data: schemeFunds } = useFunds();
+  const save = useSaveDraft();
+  const discard = useDiscardDraft();
+  const [saved, setSaved] = useState(false);
+  const [elsewhere, setElsewhere] = useState<{ path: string; message: string }[]>([]);
+  const form = useForm<AssumptionSetInput, unknown, AssumptionContent>({ resolver: zodResolver(AssumptionSetBody), defaultValues: contentOf(set), mode: 'onTouched' });
+  const { control, handleSubmit, reset, setError, setValue, getValues, formState } = form;
+  const funds = useFieldArray({ control, name: 'funds', keyName: 'key' });
+  const names = useMemo(() => new Map([...(schemeFunds?.funds ?? []).map((f) => [f.id, f.name] as const), ...set.funds.map((f) => [f.fundId, f.name] as const)]), [schemeFunds, set.funds]);
+  const inSet = new Set(funds.fields.map((f) => f.fundId));
+  const addable = (schemeFunds?.funds ?? []).filter((f) => !inSet.has(f.id));
+  const correlations = () => getValues('correlations') ?? [];
+
+  const addFund = (fundId: string) => {
+    const n = funds.fields.length;
+    const m = correlations().map((r) => [...r, 0]);
+    m.push([...new Array<number>(n).fill(0), 1]);
+    funds.append({ fundId, expectedReturn: Number.NaN, volatility: Number.NaN, annualCharge: Number.NaN });
+    setValue('correlations', m, { shouldDirty: true });
+  };
+  const removeFund = (k: number) => {
+    funds.remove(k);
+    setValue('correlations', correlations().filter((_, i) => i !== k).map((r) => r.filter((_, j) => j !== k)), { shouldDirty: true });
+  };
+  const submit = handleSubmit((content) => {
+    setSaved(false);
+    setElsewhere([]);
+    save.mutate(
+      { id: set.id, content },
+      {
+        onSuccess: (s) => (reset(contentOf(s)), setSaved(true)),
+        onError: (e) => setElsewhere(showServerIssues(e, setError, (path) => !path.startsWith('correlations') && (path in getValues() || /^funds\.\d+\./.test(path)))),
+      },
+    );
+  });
+  const fundError = (i: number) => formState.errors.funds?.[i]?.fundId?.message;
+  const matrixIssues = save.error instanceof ApiError ? save.error.issues.filter((i) => i.path.startsWith('correlations')) : [];
+
+  return (
+    <>
+      {save.error && !(save.error instanceof ApiError && save.error.status === 400) ? <Notice tone="error">{save.error.message}</Notice> : null}
+      {save.error instanceof ApiError && save.error.status === 400 && elsewhere.length ? (
+        <Notice tone="error">{`${save.error.message} ${elsewhere.map((i) => `${i.path}: ${i.message}`).join('; ')}`.trim()}</Notice>
+      ) : null}
+      {formState.errors.funds?.root?.message || formState.errors.funds?.message ? <Notice tone="error">{`Funds: ${formState.errors.funds?.root?.message ?? formState.errors.funds?.message}`}</Notice> : null}
+      {saved && !formState.isDirty ? <Notice tone="success">Draft saved.</Notice> : null}
+      <View style={{ flexDirection: width >= WIDE_BREAKPOINT ? 'row' : 'column', gap: space.lg, alignItems: 'flex-start' }}>
+        <Card title="Economy and income" style={{ flex: 1, alignSelf: 'stretch' }}>
+          <TextField control={control} name="setAt" label="Set at (YYYY-MM-DD)" />
+          {RATE_FIELDS.map(([key, label, hint]) => (
+            <PercentField key={key} control={control} name={key} label={`${label} (%)`} hint={hint} />
+          ))}
+          <NumberField control={control} name="annuityYears" label="Income conversion: years of income" integer />
+          <TextField control={control} name="rationale" label="Rationale" multiline style={{ minHeight: 96, paddingTop: space.sm }} />
+        </Card>
+        <Card title="Funds (% a year)" style={{ flex: 1, alignSelf: 'stretch' }}>
+          <View style={{ flexDirection: 'row', gap: space.sm, justifyContent: 'flex-end' }}>
+            {FUND_FIELDS.map(([k, label]) => (
+              <Text key={k} style={[type.caption, { width: 96, textAlign: 'right', color: colors.mutedInk }]}>
+                {label}
+              </Text>
+            ))}
+            <View style={{ width: 32 }} />
+          </View>
+          {funds.fields.map((f, i) => {
+            const name = names.get(f.fundId) ?? f.fundId;
+            return (
+              <View key={f.key} testID={`fund-row-${i}`} style={{ gap: space.xs, paddingVertical: space.xs, borderBottomWidth: 1, borderColor: colors.rule }}>
+                <Text style={styles.label}>{name}</Text>
+                <View style={{ flexDirection: 'row', gap: space.sm, justifyContent: 'flex-end', alignItems: 'flex-start' }}>
+                  {FUND_FIELDS.map(([k, label]) => (
+                    <PercentField key={k} compact control={control} name={`funds.${i}.${k}`} label={`${name}: ${label} (%)`} />
+                  ))}
+                  <Pressable accessibilityRole="button" accessibilityLabel={`Take ${name} out of this set`} onPress={() => removeFund(i)} disabled={funds.fields.length <= 1} style={{ width: 32, minHeight: MIN_TOUCH, alignItems: 'center', justifyContent: 'center' }}>
+                    <Text style={[type.title, { color: funds.fields.length <= 1 ? colors.rule : colors.danger }]}>×</Text>
+                  </Pressable>
+                </View>
+                {fundError(i) ? <Text style={[type.caption, { color: colors.danger }]}>{fundError(i)}</Text> : null}
+              </View>
+            );
+          })}
+          {addable.length ? (
+            <View style={{ gap: space.xs }}>
+              <Text style={styles.muted}>Add a scheme fund to this set:</Text>
+              <View style={styles.row}>
+                {addable.map((f) => (
+                  <Button key={f.id} label={`+ ${f.name}`} kind="secondary" onPress={() => addFund(f.id)} />
+                ))}
+              </View>
+            </View>
+          ) : null}
+        </Card>
+      </View>
+      <Card title="Correlations">
+        <Controller
+          control={control}
+          name="correlations"
+          render={({ field }) => <CorrelationEditor names={funds.fields.map((f) => names.get(f.fundId) ?? f.fundId)} matrix={field.value ?? []} onChange={field.onChange} testID="correlations" />}
+        />
+        {matrixIssues.map((i, k) => (
+          <Text key={k} role="alert" style={[type.caption, { color: colors.danger }]}>
+            {i.path}: {i.message}
+          </Text>
+        ))}
+      </Card>
+      <View style={styles.row}>
+        <Button label="Save draft" onPress={submit} busy={save.isPending} testID="save-draft" />
+        <Button label="Discard changes" kind="secondary" onPress={() => (reset(contentOf(set)), save.reset(), setSaved(false), setElsewhere([]))} />
+        <Button label="Delete this draft" kind="danger" onPress={() => discard.mutate(set.id, { onSuccess: () => router.replace('/assumptions') })} busy={discard.isPending} />
+      </View>
+      {discard.error ? <Notice tone="error">{discard.error.message}</Notice> : null}
+    </>
   );
 }

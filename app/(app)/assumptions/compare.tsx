@@ -3,7 +3,7 @@ import { useLocalSearchParams } from 'expo-router';
 import { Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { DataTable } from '@/components/DataTable';
 import { StatusBadge } from '@/components/StatusBadge';
-import { day, pct } from '@/components/format';
+import { date, decimal, percent } from '@/figures';
 import { useCompareSets, type FundAssumption } from '@/hooks/useAssumptions';
 
 const FIELD_LABELS: Record<string, string> = {
@@ -16,12 +16,12 @@ const FIELD_LABELS: Record<string, string> = {
 };
 
 function showField(field: string, v: string | number) {
-  if (field === 'setAt') return day(String(v));
+  if (field === 'setAt') return date(String(v));
   if (field === 'annuityYears' || field === 'rationale') return String(v || '—');
-  return pct(Number(v));
+  return percent(Number(v), 'rate');
 }
 
-const fundCell = (f: FundAssumption | null, k: keyof Omit<FundAssumption, 'fundId'>) => (f ? pct(f[k], k === 'annualCharge' ? 3 : 2) : 'not in set');
+const fundCell = (f: FundAssumption | null, k: keyof Omit<FundAssumption, 'fundId'>) => (f ? percent(f[k], 'rate') : 'not in set');
 
 export default function CompareScreen() {
   const { a, b } = useLocalSearchParams<{ a: string; b: string }>();
@@ -43,7 +43,7 @@ export default function CompareScreen() {
             { key: 'v', title: 'Version', width: 90, render: (s) => `v${s.version}` },
             { key: 's', title: 'Status', width: 110, render: (s) => <StatusBadge status={s.status} /> },
             { key: 'by', title: 'Approved by', width: 150, render: (s) => s.approvedBy ?? '—' },
-            { key: 'on', title: 'Approved on', width: 130, render: (s) => day(s.approvedAt) },
+            { key: 'on', title: 'Approved on', width: 130, render: (s) => date(s.approvedAt) },
           ]}
         />
       </Card>
@@ -88,8 +88,8 @@ export default function CompareScreen() {
             rowKey={(c) => `${c.fundA}-${c.fundB}`}
             columns={[
               { key: 'p', title: 'Pair', width: 200, render: (c) => `${c.nameA} × ${c.nameB}` },
-              { key: 'a', title: A, align: 'right', width: 90, render: (c) => (c.a === null ? '—' : c.a.toFixed(2)) },
-              { key: 'b', title: B, align: 'right', width: 90, render: (c) => (c.b === null ? '—' : c.b.toFixed(2)) },
+              { key: 'a', title: A, align: 'right', width: 90, render: (c) => decimal(c.a, 2) },
+              { key: 'b', title: B, align: 'right', width: 90, render: (c) => decimal(c.b, 2) },
             ]}
           />
         )}

@@ -6,7 +6,7 @@ import { DataTable } from '@/components/DataTable';
 import { FileUpload, UploadProblems } from '@/components/FileUpload';
 import { GrowthChart } from '@/components/GrowthChart';
 import { CorrelationEditor } from '@/components/CorrelationEditor';
-import { day, pct } from '@/components/format';
+import { date, percent } from '@/figures';
 import { colors, MIN_TOUCH, radius, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useFunds } from '@/hooks/useFunds';
@@ -63,7 +63,7 @@ export default function HistoryScreen() {
         <>
           <Card title="Suggested assumptions">
             <Text style={styles.body} testID="history-period">
-              {day(s.from)} to {day(s.to)} · {s.months} monthly returns · {s.fileName}
+              {date(s.from)} to {date(s.to)} · {s.months} monthly returns · {s.fileName}
             </Text>
             {s.thin ? <Notice tone="warning">{`Only ${s.months} months: short histories give unsteady estimates (fewer than 36 months is thin by common practice).`}</Notice> : null}
             {s.undefinedCorrelations.length ? <Notice tone="warning">{`Some funds never moved, so their correlations are undefined and shown as 0: ${s.funds.filter((f) => s.undefinedCorrelations.includes(f.fundId)).map((f) => f.name).join(', ')}.`}</Notice> : null}
@@ -75,12 +75,12 @@ export default function HistoryScreen() {
               columns={[
                 { key: 'name', title: 'Fund', width: 150, render: (f) => f.name },
                 { key: 'adopt', title: 'Adopt', width: 70, render: (f) => <Check on={selected.includes(f.fundId)} label={`Adopt ${f.name}`} onPress={() => setChosen(selected.includes(f.fundId) ? selected.filter((x) => x !== f.fundId) : [...selected, f.fundId])} /> },
-                { key: 'r', title: 'Return (suggested)', align: 'right', width: 130, render: (f) => pct(f.annualReturn) },
-                { key: 'rc', title: `Return (v${s.current?.version ?? '–'})`, align: 'right', width: 110, render: (f) => pct(current(f.fundId)?.expectedReturn) },
-                { key: 'v', title: 'Volatility (suggested)', align: 'right', width: 140, render: (f) => pct(f.annualVolatility) },
-                { key: 'vc', title: `Volatility (v${s.current?.version ?? '–'})`, align: 'right', width: 120, render: (f) => pct(current(f.fundId)?.volatility) },
-                { key: 'm', title: 'Monthly mean', align: 'right', width: 110, render: (f) => pct(f.monthlyMean, 3) },
-                { key: 'sd', title: 'Monthly sd', align: 'right', width: 100, render: (f) => pct(f.monthlySd, 3) },
+                { key: 'r', title: 'Return (suggested)', align: 'right', width: 130, render: (f) => percent(f.annualReturn, 'rate') },
+                { key: 'rc', title: `Return (v${s.current?.version ?? '–'})`, align: 'right', width: 110, render: (f) => percent(current(f.fundId)?.expectedReturn, 'rate') },
+                { key: 'v', title: 'Volatility (suggested)', align: 'right', width: 140, render: (f) => percent(f.annualVolatility, 'rate') },
+                { key: 'vc', title: `Volatility (v${s.current?.version ?? '–'})`, align: 'right', width: 120, render: (f) => percent(current(f.fundId)?.volatility, 'rate') },
+                { key: 'm', title: 'Monthly mean', align: 'right', width: 110, render: (f) => percent(f.monthlyMean, 'rate') },
+                { key: 'sd', title: 'Monthly sd', align: 'right', width: 100, render: (f) => percent(f.monthlySd, 'rate') },
               ]}
             />
             <Text style={styles.muted}>{s.method}</Text>

@@ -4,7 +4,7 @@ import { useRouter } from 'expo-router';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { DataTable } from '@/components/DataTable';
 import { StatusBadge } from '@/components/StatusBadge';
-import { day } from '@/components/format';
+import { date } from '@/figures';
 import { colors, MIN_TOUCH, radius, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useAssumptionSets, useNewDraft } from '@/hooks/useAssumptions';
@@ -40,7 +40,7 @@ export default function AssumptionsScreen() {
         <Card title="Versions">
           {latestApproved ? (
             <Text style={styles.body}>
-              In force: version {latestApproved.version}, set at {day(latestApproved.setAt)}, approved by {latestApproved.approvedBy ?? 'a former trustee'} on {day(latestApproved.approvedAt)}.
+              In force: version {latestApproved.version}, set at {date(latestApproved.setAt)}, approved by {latestApproved.approvedBy ?? 'a former trustee'} on {date(latestApproved.approvedAt)}.
             </Text>
           ) : (
             <Notice tone="warning">No version has been approved yet; projections will be marked as draft.</Notice>
@@ -54,10 +54,10 @@ export default function AssumptionsScreen() {
             columns={[
               { key: 'v', title: 'Version', width: 90, render: (s) => `v${s.version}` },
               { key: 'status', title: 'Status', width: 110, render: (s) => <StatusBadge status={s.status} /> },
-              { key: 'setAt', title: 'Set at', width: 120, render: (s) => day(s.setAt) },
+              { key: 'setAt', title: 'Set at', width: 120, render: (s) => date(s.setAt) },
               { key: 'by', title: 'Drafted by', width: 170, render: (s) => s.createdBy ?? '—' },
               { key: 'approvedBy', title: 'Approved by', width: 160, render: (s) => s.approvedBy ?? '—' },
-              { key: 'approvedAt', title: 'Approved on', width: 130, render: (s) => day(s.approvedAt) },
+              { key: 'approvedAt', title: 'Approved on', width: 130, render: (s) => date(s.approvedAt) },
             ]}
           />
         </Card>

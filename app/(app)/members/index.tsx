@@ -3,7 +3,7 @@ import { Text, View, useWindowDimensions } from 'react-native';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
 import { DataTable } from '@/components/DataTable';
 import { FileUpload, UploadProblems } from '@/components/FileUpload';
-import { day, money, parseNumber, parsePct, pct, pctInput } from '@/components/format';
+import { age, count, date, money, parseNumberInput, parsePercentInput, percent, percentInputText } from '@/figures';
 import { space, WIDE_BREAKPOINT } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
@@ -13,19 +13,19 @@ type FormText = Record<'label' | 'age' | 'retirementAge' | 'salary' | 'salaryGro
 const EMPTY: FormText = { label: '', age: '', retirementAge: '67', salary: '', salaryGrowth: '', contributionRate: '8', pot: '0' };
 
 function toText(m: IllustrativeMember): FormText {
-  return { label: m.label, age: String(m.age), retirementAge: String(m.retirementAge), salary: String(m.salary), salaryGrowth: m.salaryGrowth === null ? '' : pctInput(m.salaryGrowth), contributionRate: pctInput(m.contributionRate), pot: String(m.pot) };
+  return { label: m.label, age: String(m.age), retirementAge: String(m.retirementAge), salary: String(m.salary), salaryGrowth: m.salaryGrowth === null ? '' : percentInputText(m.salaryGrowth), contributionRate: percentInputText(m.contributionRate), pot: String(m.pot) };
 }
 
 function parse(t: FormText): { input?: IllustrativeInput; errors: Record<string, string> } {
   const errors: Record<string, string> = {};
   const num = (k: 'age' | 'retirementAge' | 'salary' | 'pot') => {
-    const v = parseNumber(t[k]);
+    const v = parseNumberInput(t[k]);
     if (v === null) errors[k] = 'enter a number';
     return v ?? 0;
   };
-  const rate = parsePct(t.contributionRate);
+  const rate = parsePercentInput(t.contributionRate);
   if (rate === null) errors.contributionRate = 'enter a percentage, e.g. 8';
-  const growth = t.salaryGrowth.trim() === '' ? null : parsePct(t.salaryGrowth);
+  const growth = t.salaryGrowth.trim() === '' ? null : parsePercentInput(t.salaryGrowth);
   if (t.salaryGrowth.trim() !== '' && growth === null) errors.salaryGrowth = 'enter a percentage, or leave empty to use the assumption set';
   const input = { label: t.label, age: num('age'), retirementAge: num('retirementAge'), salary: num('salary'), pot: num('pot'), contributionRate: rate ?? 0, salaryGrowth: growth };
   return Object.keys(errors).length ? { errors } : { input, errors };
@@ -73,10 +73,10 @@ function Illustrative({ currency }: { currency: string }) {
               { key: 'label', title: 'Member', width: 130, render: (m) => m.label },
               { key: 'age', title: 'Age', align: 'right', width: 60, render: (m) => String(m.age) },
               { key: 'ret', title: 'Retires at', align: 'right', width: 90, render: (m) => String(m.retirementAge) },
-              { key: 'salary', title: 'Salary', align: 'right', width: 100, render: (m) => money(m.salary, currency) },
-              { key: 'growth', title: 'Salary growth', align: 'right', width: 110, render: (m) => (m.salaryGrowth === null ? 'as assumed' : pct(m.salaryGrowth)) },
-              { key: 'rate', title: 'Contribution', align: 'right', width: 110, render: (m) => pct(m.contributionRate, 1) },
-              { key: 'pot', title: 'Pot today', align: 'right', width: 100, render: (m) => money(m.pot, currency) },
+              { key: 'salary', title: 'Salary', align: 'right', width: 100, render: (m) => money(m.salary, currency, 'entered') },
+              { key: 'growth', title: 'Salary growth', align: 'right', width: 110, render: (m) => (m.salaryGrowth === null ? 'as assumed' : percent(m.salaryGrowth, 'rate')) },
+              { key: 'rate', title: 'Contribution', align: 'right', width: 110, render: (m) => percent(m.contributionRate, 'rate') },
+              { key: 'pot', title: 'Pot today', align: 'right', width: 100, render: (m) => money(m.pot, currency, 'entered') },
             ]}
           />
         ) : null}
@@ -118,7 +118,7 @@ function Membership({ currency }: { currency: string }) {
       {data ? (
         <>
           <Text style={styles.body} testID="membership-count">
-            {data.count.toLocaleString('en-GB')} members{data.uploadedAt ? `, uploaded ${day(data.uploadedAt)}` : ''}. Median age {data.medians.age ?? '—'}, median salary {money(data.medians.salary, currency)}, median pot {money(data.medians.pot, currency)}, total pots {money(data.totals.pot, currency)}.
+            {count(data.count)} members{data.uploadedAt ? `, uploaded ${date(data.uploadedAt)}` : ''}. Median age {data.medians.age === null ? '—' : age(data.medians.age)}, median salary {money(data.medians.salary, currency, 'entered')}, median pot {money(data.medians.pot, currency)}, total pots {money(data.totals.pot, currency)}.
           </Text>
           <Text style={styles.muted}>By age: {data.ages.map((a) => `${a.band}: ${a.count}`).join(' · ')}</Text>
           <DataTable
@@ -129,9 +129,9 @@ function Membership({ currency }: { currency: string }) {
             columns={[
               { key: 'ref', title: 'Reference', width: 110, render: (r) => r.reference },
               { key: 'age', title: 'Age', align: 'right', width: 60, render: (r) => String(r.age) },
-              { key: 'salary', title: 'Salary', align: 'right', width: 100, render: (r) => money(r.salary, currency) },
-              { key: 'pot', title: 'Pot', align: 'right', width: 100, render: (r) => money(r.pot, currency) },
-              { key: 'rate', title: 'Contribution', align: 'right', width: 110, render: (r) => pct(r.contributionRate, 1) },
+              { key: 'salary', title: 'Salary', align: 'right', width: 100, render: (r) => money(r.salary, currency, 'entered') },
+              { key: 'pot', title: 'Pot', align: 'right', width: 100, render: (r) => money(r.pot, currency, 'entered') },
+              { key: 'rate', title: 'Contribution', align: 'right', width: 110, render: (r) => percent(r.contributionRate, 'rate') },
               { key: 'ret', title: 'Retires at', align: 'right', width: 90, render: (r) => String(r.retirementAge) },
             ]}
           />
@@ -152,7 +152,7 @@ function Membership({ currency }: { currency: string }) {
           </Text>
           <FileUpload label="Upload membership CSV" busy={upload.isPending} onFile={(f) => (setOffset(0), upload.mutate(f))} testID="upload-membership" />
           <UploadProblems error={upload.error} />
-          {upload.data ? <Notice tone="success">{`${upload.data.count.toLocaleString('en-GB')} members stored, replacing ${upload.data.replaced.toLocaleString('en-GB')}.`}</Notice> : null}
+          {upload.data ? <Notice tone="success">{`${count(upload.data.count)} members stored, replacing ${count(upload.data.replaced)}.`}</Notice> : null}
         </View>
       ) : null}
     </Card>

@@ -1,63 +1,90 @@
 import { useMemo, useState } from 'react';
-import { Pressable, Text, View, useWindowDimensions } from 'react-native';
+import { Text, View, useWindowDimensions } from 'react-native';
+import { Controller, useForm, useWatch } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
 import { useLocalSearchParams, useRouter } from 'expo-router';
-import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
+import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { ApprovalPanel } from '@/components/ApprovalPanel';
+import { Chip } from '@/components/Chip';
+import { showServerIssues, TextField } from '@/components/FormFields';
 import { GlidePathChart } from '@/components/GlidePathChart';
-import { GlidePathEditor, type EditablePoint } from '@/components/GlidePathEditor';
+import { GlidePathEditor } from '@/components/GlidePathEditor';
 import { GlidePathTable } from '@/components/GlidePathTable';
 import { StatusBadge } from '@/components/StatusBadge';
 import { Tag } from '@/components/Tag';
-import { day } from '@/components/format';
-import { colors, MIN_TOUCH, radius, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
-import { ApiError, fieldError } from '@/hooks/api';
+import { date, plural } from '@/figures';
+import { space, WIDE_BREAKPOINT } from '@/constants/theme';
+import { ApiError } from '@/hooks/api';
+import { OptionBody, type OptionBodyInput } from '@/schemas/options';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useFunds } from '@/hooks/useFunds';
-import { useApproveVersion, useDiscardVersion, useOption, useOptionVersion, useSaveOption, useSetCurrentDefault, type OptionWithVersions } from '@/hooks/useOptions';
+import { useApproveVersion, useDiscardVersion, useOption, useOptionVersion, useSaveOption, useSetCurrentDefault, type OptionInput, type OptionWithVersions } from '@/hooks/useOptions';
 import { useSession } from '@/hooks/useSession';
-
-type Form = { name: string; description: string; points: EditablePoint[] };
 
 export default function OptionScreen() {
   const { id } = useLocalSearchParams<{ id: string }>();
   return id === 'new' ? <NewOption /> : <ExistingOption id={id} />;
 }
 
-/** The name, description and glide-path editor with a live preview. */
-function OptionForm({ form, setForm, error, saveLabel, onSave, busy, note }: { form: Form; setForm: (f: Form) => void; error: unknown; saveLabel: string; onSave: () => void; busy: boolean; note?: string }) {
+/**
+ * The name, description and glide-path editor with a live preview: a form checked by the API's
+ * own schema (schemas/options.ts), with the API's field problems shown beside their fields.
+ */
+function OptionForm({ id, start, save, saveLabel, note, onSaved }: { id?: string; start: OptionInput; save: ReturnType<typeof useSaveOption>; saveLabel: string; note?: string; onSaved: (o: OptionWithVersions) => void }) {
   const { width } = useWindowDimensions();
   const { data: funds } = useFunds();
   const router = useRouter();
+  const { control, handleSubmit, setError, formState } = useForm<OptionBodyInput, unknown, OptionInput>({ resolver: zodResolver(OptionBody), defaultValues: start, mode: 'onTouched' });
+  const points = useWatch({ control, name: 'glidePath' });
+  const name = useWatch({ control, name: 'name' });
+  const pathErrors = formState.errors.glidePath;
+  const pointErrors = useMemo(
+    () => (points ?? []).map((_, k) => ({ yearsToRetirement: pathErrors?.[k]?.yearsToRetirement?.message, weights: (pathErrors?.[k]?.weights as { message?: string } | undefined)?.message })),
+    [points, pathErrors],
+  );
   if (!funds) return <Loading />;
   const wide = width >= WIDE_BREAKPOINT;
-  const pathIssues = error instanceof ApiError ? error.issues.filter((i) => i.path.startsWith('glidePath')) : [];
+  const elsewhere = save.error instanceof ApiError ? save.error.issues.filter((i) => i.path.startsWith('glidePath') && !/^glidePath\.\d+\.(yearsToRetirement|weights)/.test(i.path)) : [];
+  const submit = handleSubmit((input) =>
+    save.mutate(
+      { id, input },
+      {
+        onSuccess: onSaved,
+        onError: (e) => void showServerIssues(e, setError, (path) => /^(name|description|glidePath\.\d+\.(yearsToRetirement|weights))/.test(path)),
+      },
+    ),
+  );
   return (
-    <View style={{ flexDirection: wide ? 'row' : 'column', gap: space.lg, alignItems: 'flex-start' }}>
-      <View style={{ flex: 1, gap: space.lg, alignSelf: 'stretch' }}>
-        <Card>
-          <Field label="Name" value={form.name} onChangeText={(v) => setForm({ ...form, name: v })} error={fieldError(error, 'name')} />
-          <Field label="Description" value={form.description} onChangeText={(v) => setForm({ ...form, description: v })} error={fieldError(error, 'description')} multiline style={{ minHeight: 80, paddingTop: space.sm }} />
-        </Card>
-        <Card title="Glide path">
-          <GlidePathEditor funds={funds.funds} points={form.points} onChange={(points) => setForm({ ...form, points })} />
-          {pathIssues.map((i, k) => (
-            <Text key={k} role="alert" style={[styles.error]}>
-              {i.path}: {i.message}
-            </Text>
-          ))}
-        </Card>
-      </View>
-      <View style={{ flex: 1, gap: space.lg, alignSelf: 'stretch' }}>
-        <Card title="Preview">
-          <GlidePathChart funds={funds.funds} glidePath={form.points} title="Fund mix from 40 years to retirement" />
-        </Card>
-        {note ? <Notice>{note}</Notice> : null}
-        <View style={styles.row}>
-          <Button label={saveLabel} onPress={onSave} busy={busy} disabled={!form.name.trim()} testID="save-option" />
-          <Button label="Back to options" kind="secondary" onPress={() => router.push('/options')} />
+    <>
+      {save.error && !(save.error instanceof ApiError && save.error.status === 400) ? <Notice tone="error">{save.error.message}</Notice> : null}
+      <View style={{ flexDirection: wide ? 'row' : 'column', gap: space.lg, alignItems: 'flex-start' }}>
+        <View style={{ flex: 1, gap: space.lg, alignSelf: 'stretch' }}>
+          <Card>
+            <TextField control={control} name="name" label="Name" />
+            <TextField control={control} name="description" label="Description" multiline style={{ minHeight: 80, paddingTop: space.sm }} />
+          </Card>
+          <Card title="Glide path">
+            <Controller control={control} name="glidePath" render={({ field }) => <GlidePathEditor funds={funds.funds} points={field.value} onChange={field.onChange} errors={pointErrors} />} />
+            {pathErrors?.message || pathErrors?.root?.message ? <Text role="alert" style={styles.error}>{pathErrors?.message ?? pathErrors?.root?.message}</Text> : null}
+            {elsewhere.map((i, k) => (
+              <Text key={k} role="alert" style={[styles.error]}>
+                {i.path}: {i.message}
+              </Text>
+            ))}
+          </Card>
+        </View>
+        <View style={{ flex: 1, gap: space.lg, alignSelf: 'stretch' }}>
+          <Card title="Preview">
+            <GlidePathChart funds={funds.funds} glidePath={points ?? []} title="Fund mix from 40 years to retirement" />
+          </Card>
+          {note ? <Notice>{note}</Notice> : null}
+          <View style={styles.row}>
+            <Button label={saveLabel} onPress={submit} busy={save.isPending} disabled={!String(name ?? '').trim()} testID="save-option" />
+            <Button label="Back to options" kind="secondary" onPress={() => router.push('/options')} />
+          </View>
         </View>
       </View>
-    </View>
+    </>
   );
 }
 
@@ -65,35 +92,12 @@ function NewOption() {
   const router = useRouter();
   const { data: funds } = useFunds();
   const save = useSaveOption();
-  const [form, setForm] = useState<Form | null>(null);
-  const f = form ?? (funds?.funds[0] ? { name: '', description: '', points: [{ yearsToRetirement: 0, weights: { [funds.funds[0].id]: 1 } }] } : null);
-  if (!f) return <Loading />;
+  if (!funds) return <Loading />;
+  const start: OptionInput = { name: '', description: '', glidePath: funds.funds[0] ? [{ yearsToRetirement: 0, weights: { [funds.funds[0].id]: 1 } }] : [] };
   return (
     <Screen title="New default option" subtitle="A new option starts as draft version 1; a trustee other than you approves it before runs use it as approved.">
-      {save.error && !(save.error instanceof ApiError && save.error.status === 400) ? <Notice tone="error">{save.error.message}</Notice> : null}
-      <OptionForm
-        form={f}
-        setForm={setForm}
-        error={save.error}
-        saveLabel="Create option"
-        busy={save.isPending}
-        onSave={() => save.mutate({ input: { name: f.name, description: f.description, glidePath: f.points } }, { onSuccess: (o) => router.replace(`/options/${o.id}`) })}
-      />
+      <OptionForm start={start} save={save} saveLabel="Create option" onSaved={(o) => router.replace(`/options/${o.id}`)} />
     </Screen>
-  );
-}
-
-function VersionChip({ label, selected, onPress, testID }: { label: string; selected: boolean; onPress: () => void; testID?: string }) {
-  return (
-    <Pressable
-      role="radio"
-      aria-checked={selected}
-      onPress={onPress}
-      testID={testID}
-      style={{ minHeight: MIN_TOUCH, paddingHorizontal: space.md, justifyContent: 'center', borderRadius: radius.md, borderWidth: 1, borderColor: selected ? colors.primary : colors.rule, backgroundColor: selected ? colors.primaryTint : colors.surface }}
-    >
-      <Text style={[type.label, { color: selected ? colors.primary : colors.ink }]}>{label}</Text>
-    </Pressable>
   );
 }
 
@@ -111,7 +115,7 @@ function ExistingOption({ id }: { id: string }) {
   const approve = useApproveVersion();
   const discard = useDiscardVersion();
   const setDefault = useSetCurrentDefault();
-  const [editing, setEditing] = useState<Form | null>(null);
+  const [editing, setEditing] = useState<OptionInput | null>(null);
   const [compareWith, setCompareWith] = useState<string | null>(null);
   const editable = can('options:edit');
 
@@ -126,25 +130,16 @@ function ExistingOption({ id }: { id: string }) {
   if (editing) {
     return (
       <Screen title={`Edit ${option.name}`} subtitle={draftPending ? `Changes draft version ${latest.version}.` : `Starts draft version ${latest.version + 1}; version ${latest.version} stays in force until it is approved.`}>
-        {save.error && !(save.error instanceof ApiError && save.error.status === 400) ? <Notice tone="error">{save.error.message}</Notice> : null}
         <OptionForm
-          form={editing}
-          setForm={setEditing}
-          error={save.error}
+          id={id}
+          start={editing}
+          save={save}
           saveLabel={draftPending ? `Save draft v${latest.version}` : `Save as draft v${latest.version + 1}`}
-          busy={save.isPending}
           note={draftPending ? 'Saving withdraws any approvals the draft had: it must be approved again as changed.' : 'A trustee other than you approves the new version (four-eyes rule).'}
-          onSave={() =>
-            save.mutate(
-              { id, input: { name: editing.name, description: editing.description, glidePath: editing.points } },
-              {
-                onSuccess: (o: OptionWithVersions) => {
-                  setEditing(null);
-                  setChosen(o.latest.id);
-                },
-              },
-            )
-          }
+          onSaved={(o) => {
+            setEditing(null);
+            setChosen(o.latest.id);
+          }}
         />
         <Button label="Cancel" kind="secondary" onPress={() => setEditing(null)} />
       </Screen>
@@ -156,7 +151,7 @@ function ExistingOption({ id }: { id: string }) {
       title={option.name}
       subtitle={option.description || undefined}
       actions={
-        editable && !option.archived ? <Button label={draftPending ? `Edit draft v${latest.version}` : 'Edit (new version)'} onPress={() => setEditing({ name: option.name, description: option.description, points: option.glidePath })} testID="edit-option" /> : null
+        editable && !option.archived ? <Button label={draftPending ? `Edit draft v${latest.version}` : 'Edit (new version)'} onPress={() => setEditing({ name: option.name, description: option.description, glidePath: option.glidePath })} testID="edit-option" /> : null
       }
     >
       <View style={styles.row}>
@@ -173,7 +168,7 @@ function ExistingOption({ id }: { id: string }) {
         </Text>
         <View role="radiogroup" style={styles.row}>
           {option.versions.map((x) => (
-            <VersionChip key={x.id} label={`v${x.version} · ${x.status === 'draft' ? 'draft' : 'approved'}`} selected={x.id === versionId} onPress={() => setChosen(x.id)} testID={`version-${x.version}`} />
+            <Chip key={x.id} kind="radio" label={`v${x.version} · ${x.status === 'draft' ? 'draft' : 'approved'}`} selected={x.id === versionId} onPress={() => setChosen(x.id)} testID={`version-${x.version}`} />
           ))}
         </View>
         {others.length ? (
@@ -181,7 +176,7 @@ function ExistingOption({ id }: { id: string }) {
             <Text style={styles.label}>Compare this version with</Text>
             <View style={styles.row}>
               {others.map((x) => (
-                <VersionChip key={x.id} label={`v${x.version}`} selected={compareWith === x.id} onPress={() => setCompareWith(x.id)} />
+                <Chip key={x.id} kind="radio" label={`v${x.version}`} selected={compareWith === x.id} onPress={() => setCompareWith(x.id)} />
               ))}
               <Button kind="secondary" label="Compare side by side" disabled={!compareWith || !versionId} onPress={() => router.push(`/options/compare?option=${id}&a=${compareWith}&b=${versionId}`)} testID="compare-versions" />
             </View>
@@ -196,9 +191,9 @@ function ExistingOption({ id }: { id: string }) {
           <Card title={`Version ${v.version}: ${v.name}`}>
             <StatusBadge status={v.status} />
             <Text style={styles.muted}>
-              Drafted by {v.createdBy ?? '—'} on {day(v.createdAt)}
-              {v.basedOnVersion ? ` from version ${v.basedOnVersion}` : ''} · last changed by {v.updatedBy ?? '—'} on {day(v.updatedAt)}
-              {v.usedByRuns ? ` · used by ${v.usedByRuns} run${v.usedByRuns === 1 ? '' : 's'}` : ''}
+              Drafted by {v.createdBy ?? '—'} on {date(v.createdAt)}
+              {v.basedOnVersion ? ` from version ${v.basedOnVersion}` : ''} · last changed by {v.updatedBy ?? '—'} on {date(v.updatedAt)}
+              {v.usedByRuns ? ` · used by ${plural(v.usedByRuns, 'run')}` : ''}
             </Text>
             {v.description ? <Text style={styles.body}>{v.description}</Text> : null}
             <GlidePathChart funds={funds.funds} glidePath={v.glidePath} title="Fund mix from 40 years to retirement" />

@@ -4,7 +4,7 @@ import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { DataTable } from '@/components/DataTable';
 import { GlidePathChart } from '@/components/GlidePathChart';
 import { StatusBadge } from '@/components/StatusBadge';
-import { day, pct } from '@/components/format';
+import { date, dateTime, percent } from '@/figures';
 import { space, WIDE_BREAKPOINT } from '@/constants/theme';
 import { useFunds } from '@/hooks/useFunds';
 import { useCompareVersions, type OptionVersion } from '@/hooks/useOptions';
@@ -35,7 +35,7 @@ export default function CompareVersions() {
           <Card key={v.id} title={title(v)} style={{ flex: 1 }}>
             <StatusBadge status={v.status} />
             <Text style={styles.muted}>
-              {v.status === 'approved' ? `Approved ${v.approvals.length ? `by ${v.approvals.map((x) => x.name).join(' and ')} ` : ''}on ${day(v.approvedAt)}` : `Draft, last changed by ${v.updatedBy ?? '—'} on ${day(v.updatedAt)}`}
+              {v.status === 'approved' ? `Approved ${v.approvals.length ? `by ${v.approvals.map((x) => x.name).join(' and ')} ` : ''}on ${date(v.approvedAt)}` : `Draft, last changed by ${v.updatedBy ?? '—'} on ${dateTime(v.updatedAt)}`}
             </Text>
             {v.description ? <Text style={styles.body}>{v.description}</Text> : null}
             <GlidePathChart funds={funds.funds} glidePath={v.glidePath} title={`${title(v)}: fund mix by years to retirement`} />
@@ -52,7 +52,7 @@ export default function CompareVersions() {
           rowTone={(y) => (used.some((f) => Math.abs(at(va, y)[f.i] - at(vb, y)[f.i]) > 1e-9) ? 'highlight' : undefined)}
           columns={[
             { key: 'y', title: 'Years to retirement', width: 110, align: 'right', render: (y) => String(y) },
-            ...used.map((f) => ({ key: f.id, title: `${f.name} (v${va.version} → v${vb.version})`, width: 170, align: 'right' as const, render: (y: number) => `${pct(at(va, y)[f.i], 1)} → ${pct(at(vb, y)[f.i], 1)}` })),
+            ...used.map((f) => ({ key: f.id, title: `${f.name} (v${va.version} → v${vb.version})`, width: 170, align: 'right' as const, render: (y: number) => `${percent(at(va, y)[f.i], 'share')} → ${percent(at(vb, y)[f.i], 'share')}` })),
           ]}
         />
       </Card>

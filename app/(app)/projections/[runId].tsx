@@ -1,14 +1,16 @@
 import { useMemo, useState } from 'react';
-import { Pressable, Text, View, useWindowDimensions } from 'react-native';
+import { Text, View, useWindowDimensions } from 'react-native';
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { Button, Card, Loading, Notice, Screen, styles } from '@/components/ui';
 import { CautionNotice } from '@/components/CautionNotice';
-import { ComparisonTable, pinFirst } from '@/components/ComparisonTable';
+import { ChanceChart } from '@/components/ChanceChart';
+import { Chip } from '@/components/Chip';
+import { ComparisonTable } from '@/components/ComparisonTable';
 import { FanChart } from '@/components/FanChart';
 import { LambdaControl } from '@/components/LambdaControl';
 import { ProgressBar } from '@/components/ProgressBar';
-import { breakEvenSentence, money, rankOptions } from '@/components/projectionFigures';
-import { colors, MIN_TOUCH, radius, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
+import { baselineOf, baselineSentence, breakEvenSentence, count, crossingsOf, differenceSentence, differencesToBaseline, lambda as lambdaText, money, percent, pinFirst, plural, rankAt, sampleOf, separationSentence } from '@/figures';
+import { colors, optionStyle, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useRerun, useRun, type RunDetail, type StoredVariant } from '@/hooks/useRuns';
 
@@ -21,7 +23,7 @@ export default function RunView() {
   if (!scheme || run.isLoading) return <Loading />;
   if (run.error || !run.data) return <Notice tone="error">{run.error?.message ?? 'No such run.'}</Notice>;
   const r = run.data;
-  const subtitle = `Assumptions version ${r.assumptionSet.version}${r.assumptionsDraft ? ' (DRAFT)' : ''} · ${r.paths.toLocaleString('en-GB')} paths · seed ${r.seed}${r.engineVersion ? ` · engine ${r.engineVersion}` : ''}`;
+  const subtitle = `Assumptions version ${r.assumptionSet.version}${r.assumptionsDraft ? ' (DRAFT)' : ''} · ${count(r.paths)} paths · seed ${r.seed}${r.engineVersion ? ` · engine ${r.engineVersion}` : ''}`;
   return (
     <Screen
       title="Comparison of default options"
@@ -59,11 +61,29 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
   const [width, setWidth] = useState(0);
   const { width: windowWidth } = useWindowDimensions();
   const names = useMemo(() => Object.fromEntries(run.options.map((o) => [o.id, o.name])), [run.options]);
-  const colorOf = (id: string) => colors.series[run.options.findIndex((o) => o.id === id) % colors.series.length];
+  const styleOf = (id: string) => optionStyle(run.options.findIndex((o) => o.id === id));
   const scenario = run.input.scenario;
-  const ranked = useMemo(() => rankOptions(result.base, scenario, names, memberId, lambda), [result.base, scenario, names, memberId, lambda]);
-  const sentence = useMemo(() => breakEvenSentence(result.base, ranked, memberId), [result.base, ranked, memberId]);
-  const stressedRanked = useMemo(() => (result.stressed ? rankOptions(result.stressed, scenario, names, memberId, lambda) : null), [result.stressed, scenario, names, memberId, lambda]);
+  const ranked = useMemo(() => rankAt(result.base, scenario, memberId, lambda, names), [result.base, scenario, names, memberId, lambda]);
+  // Differences are measured from the scheme's current default when the run was made (else the top-ranked option).
+  const baseline = baselineOf(ranked, run.baselineOptionId);
+  const differences = useMemo(() => differencesToBaseline(ranked, baseline?.optionId), [ranked, baseline]);
+  const sentences = useMemo(() => {
+    // The top-ranked option against each other one, in the engine's break-even figures (every path).
+    const top = ranked[0];
+    if (!top) return [];
+    return ranked.slice(1).map((other) => {
+      const b = result.base.result.breakEven.find((x) => x.memberId === memberId && [x.optionA, x.optionB].includes(top.optionId) && [x.optionA, x.optionB].includes(other.optionId));
+      return breakEvenSentence({
+        a: { name: top.name, pots: sampleOf(result.base, top.optionId, memberId) },
+        b: { name: other.name, pots: sampleOf(result.base, other.optionId, memberId) },
+        crossings: b ? crossingsOf(b) : { status: 'none', lambdas: [] },
+        lambda,
+        leaderAtLambda: 'a',
+      });
+    });
+  }, [ranked, result.base, memberId, lambda]);
+  const separation = ranked[0] ? separationSentence(ranked[0], differencesToBaseline(ranked)[0]) : null;
+  const stressedRanked = useMemo(() => (result.stressed ? rankAt(result.stressed, scenario, memberId, lambda, names) : null), [result.stressed, scenario, names, memberId, lambda]);
   const columns = windowWidth >= WIDE_BREAKPOINT && width > 700 ? 2 : 1;
   const chartWidth = Math.floor((width - (columns - 1) * space.lg) / columns) - 2 * space.lg - 2;
   const member = run.input.members.find((m) => m.id === memberId);
@@ -86,12 +106,12 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
       <Card title="Illustrative member">
         <View style={styles.row}>
           {run.members.map((m) => (
-            <Toggle key={m.id} label={m.label} selected={m.id === memberId} onPress={() => setMemberId(m.id)} />
+            <Chip kind="toggle" key={m.id} label={m.label} selected={m.id === memberId} onPress={() => setMemberId(m.id)} />
           ))}
         </View>
         {member ? (
           <Text style={styles.muted}>
-            Age {member.age}, retiring at {member.retirementAge}. Income target: {Math.round(run.targetReplacementRatio * 100)}% of final salary, bought at retirement.
+            Age {member.age}, retiring at {member.retirementAge}. Income target: {percent(run.targetReplacementRatio, 'rate')} of final salary, bought at retirement.
           </Text>
         ) : null}
       </Card>
@@ -100,27 +120,41 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
         <LambdaControl value={lambda} onChange={setLambda} currency={currency} />
       </Card>
 
-      <Card title={`Options ranked at λ = ${lambda}`}>
-        {sentence ? (
-          <Text style={[type.body, { color: colors.ink, fontFamily: type.label.fontFamily }]} testID="break-even-sentence">
-            {sentence}
+      <Card title={`Options ranked at λ = ${lambdaText(lambda)}`}>
+        {sentences.map((s) => (
+          <Text key={s} style={[type.body, { color: colors.ink, fontFamily: type.label.fontFamily }]} testID="break-even-sentence">
+            {s}
           </Text>
+        ))}
+        {separation ? <Text style={styles.body}>{separation}</Text> : null}
+        <ComparisonTable rows={ranked} currency={currency} lambda={lambda} styleOf={styleOf} baselineId={run.baselineOptionId} />
+        <BaselineNote run={run} ranked={ranked} />
+        {differences.length && baseline ? (
+          <View style={{ gap: space.xs }} testID="differences">
+            {differences.map((d) => (
+              <Text key={d.optionId} style={styles.body}>
+                {differenceSentence(d, baseline.name, currency)}
+              </Text>
+            ))}
+          </View>
         ) : null}
-        <ComparisonTable rows={ranked} currency={currency} lambda={lambda} colorOf={colorOf} baselineId={run.baselineOptionId} />
-        <BaselineNote run={run} />
         {can('reports:create') ? (
           <View style={styles.row}>
-            <Button kind="secondary" label={`Make a board report at λ = ${lambda}`} onPress={() => router.push(`/reports?run=${run.id}&lambda=${lambda}`)} />
+            <Button kind="secondary" label={`Make a board report at λ = ${lambdaText(lambda)}`} onPress={() => router.push(`/reports?run=${run.id}&lambda=${lambda}`)} />
           </View>
         ) : null}
         <Text style={styles.muted}>
           Pots at retirement in today&apos;s money, net of charges. ± is one Monte Carlo standard error. The certainty-equivalent pot is the sure amount the board would value as highly as the spread of outcomes at this λ
-          {result.sample.kind === 'quantiles' ? `; away from the run's λ (${run.riskAversion}) it is computed from ${result.sample.size.toLocaleString('en-GB')} stored quantiles of the ${run.paths.toLocaleString('en-GB')} outcomes` : ''}.
+          {result.sample.kind === 'quantiles' ? `; away from the run's λ (${lambdaText(run.riskAversion)}) it is computed from ${count(result.sample.size)} stored quantiles of the ${count(run.paths)} outcomes` : ''}.
         </Text>
       </Card>
 
+      <Card>
+        <ChanceChart rows={ranked} width={Math.max(0, width - 2 * space.lg - 2)} styleOf={styleOf} />
+      </Card>
+
       {stressedRanked && stress ? (
-        <Card title={`With a ${Math.round(stress.fall * 100)}% fall in ${stressFund} ${stress.yearsBeforeRetirement} year${stress.yearsBeforeRetirement === 1 ? '' : 's'} before retirement`}>
+        <Card title={`With a ${percent(stress.fall, 'share')} fall in ${stressFund} ${plural(stress.yearsBeforeRetirement, 'year')} before retirement`}>
           <Text style={styles.muted}>The same paths with the shock added. Median pot without and with the shock:</Text>
           {stressedRanked.map((s) => {
             const base = ranked.find((b) => b.optionId === s.optionId)!;
@@ -130,15 +164,15 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
               </Text>
             );
           })}
-          <ComparisonTable rows={stressedRanked} currency={currency} lambda={lambda} colorOf={colorOf} baselineId={run.baselineOptionId} />
+          <ComparisonTable rows={stressedRanked} currency={currency} lambda={lambda} styleOf={styleOf} baselineId={run.baselineOptionId} testID="stressed-comparison-table" />
         </Card>
       ) : null}
 
       <View style={[styles.row, { justifyContent: 'space-between' }]}>
         <Text style={[type.title, { color: colors.ink }]}>Pot by age</Text>
         <View style={styles.row}>
-          <Toggle label="Today's money" selected={!nominal} onPress={() => setNominal(false)} />
-          <Toggle label="Money of the day" selected={nominal} onPress={() => setNominal(true)} />
+          <Chip kind="toggle" label="Today's money" selected={!nominal} onPress={() => setNominal(false)} />
+          <Chip kind="toggle" label="Money of the day" selected={nominal} onPress={() => setNominal(true)} />
         </View>
       </View>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.lg }}>
@@ -154,7 +188,7 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
                   realTerms={!nominal}
                   width={columns === 1 ? width - 2 * space.lg - 2 : chartWidth}
                   yMax={yMax}
-                  accent={colorOf(row.optionId)}
+                  option={styleOf(row.optionId)}
                 />
               </Card>
             ))
@@ -166,18 +200,16 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
 }
 
 /** Which option was the baseline, and the versions the run used (runs made before versions name none). */
-function BaselineNote({ run }: { run: RunDetail }) {
-  const baseline = run.options.find((o) => o.id === run.baselineOptionId);
+function BaselineNote({ run, ranked }: { run: RunDetail; ranked: { optionId: string; name: string }[] }) {
   const versions = run.options.filter((o) => o.version !== null);
   const drafts = run.options.filter((o) => o.status === 'draft');
   return (
     <View style={{ gap: 2 }}>
       <Text style={styles.muted} testID="baseline-note">
-        {baseline
-          ? `${baseline.name} was the scheme's current default when this run was made: it is shown first, as the baseline, with its rank.`
-          : run.baselineOptionId
-            ? "The scheme's current default when this run was made is not among its options."
-            : 'No option was marked as the current default when this run was made.'}
+        {baselineSentence(
+          ranked.find((o) => o.optionId === run.baselineOptionId),
+          run.baselineOptionId,
+        )}
       </Text>
       {versions.length ? <Text style={styles.muted}>Versions run: {versions.map((o) => `${o.name} v${o.version}${o.status === 'draft' ? ' (DRAFT)' : ''}`).join(', ')}.</Text> : <Text style={styles.muted}>Made before options were versioned: the options as they stood then are kept in the run.</Text>}
       {drafts.length ? <Notice tone="warning">{`${drafts.map((o) => o.name).join(', ')} ran as ${drafts.length === 1 ? 'a draft version' : 'draft versions'} not yet approved.`}</Notice> : null}
@@ -188,28 +220,7 @@ function BaselineNote({ run }: { run: RunDetail }) {
 function VariantNote({ variant }: { variant: StoredVariant }) {
   return (
     <Text style={styles.muted}>
-      Inflation {(variant.result.inflation * 100).toFixed(1)}% a year; {variant.result.paths.toLocaleString('en-GB')} simulated paths; seed {variant.result.seed}.
+      Inflation {percent(variant.result.inflation, 'rate')} a year; {count(variant.result.paths)} simulated paths; seed {variant.result.seed}.
     </Text>
-  );
-}
-
-function Toggle({ label, selected, onPress }: { label: string; selected: boolean; onPress: () => void }) {
-  return (
-    <Pressable
-      accessibilityRole="button"
-      accessibilityState={{ selected }}
-      onPress={onPress}
-      style={{
-        minHeight: MIN_TOUCH,
-        paddingHorizontal: space.md,
-        justifyContent: 'center',
-        borderRadius: radius.md,
-        borderWidth: 1,
-        borderColor: colors.primary,
-        backgroundColor: selected ? colors.primary : colors.surface,
-      }}
-    >
-      <Text style={[type.label, { color: selected ? colors.onPrimary : colors.primary }]}>{label}</Text>
-    </Pressable>
   );
 }

@@ -6,9 +6,9 @@ import { DataTable, type Column } from '@/components/DataTable';
 import { DownloadLink } from '@/components/DownloadLink';
 import { colors, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
+import { comparisonColumns, percentileLabel } from '@/figures';
 import { reportFileUrl, useEmailReport, useReport, type ReportComparisonRow } from '@/hooks/useReports';
 
-const ordinal = (n: number) => (n === 50 ? 'Median' : `${n}${n % 10 === 1 && n !== 11 ? 'st' : n % 10 === 2 && n !== 12 ? 'nd' : n % 10 === 3 && n !== 13 ? 'rd' : 'th'}`);
 
 export default function ReportView() {
   const { id } = useLocalSearchParams<{ id: string }>();
@@ -28,16 +28,18 @@ export default function ReportView() {
   const members = [...new Set(c.comparison.map((x) => x.memberId))];
   const pctColumns: Column<ReportComparisonRow>[] = [
     { key: 'option', title: 'Option', width: 170, render: (x) => x.optionName },
-    ...c.percentiles.map((p): Column<ReportComparisonRow> => ({ key: `p${p}`, title: ordinal(p), align: 'right', width: 96, render: (x) => x.display.percentilesReal[`p${p}`] })),
+    ...c.percentiles.map((p): Column<ReportComparisonRow> => ({ key: `p${p}`, title: percentileLabel(p), align: 'right', width: 96, render: (x) => x.display.percentilesReal[`p${p}`] })),
   ];
+  // The report's own headings as printed (reports made before they were stored use today's).
   const riskColumns: Column<ReportComparisonRow>[] = [
-    { key: 'option', title: 'Option', width: 170, render: (x) => x.optionName },
-    { key: 'mean', title: 'Mean', align: 'right', width: 100, render: (x) => x.display.meanReal },
-    { key: 'target', title: 'Chance of target', align: 'right', width: 90, render: (x) => x.display.probabilityReachingTarget },
-    { key: 'worst', title: 'Average of worst 5%', align: 'right', width: 110, render: (x) => x.display.expectedShortfallReal },
-    { key: 'income', title: 'Median income a year', align: 'right', width: 110, render: (x) => x.display.medianRealIncome },
-    { key: 'ce', title: `CE pot (λ = ${c.lambdaDisplay})`, align: 'right', width: 110, render: (x) => x.display.certaintyEquivalentPot },
-    { key: 'cer', title: 'CE return a year', align: 'right', width: 90, render: (x) => x.display.certaintyEquivalentReturn },
+    { key: 'option', title: 'Rank and option', width: 170, render: (x) => (x.rank ? `${x.rank}. ${x.optionName}` : x.optionName) },
+    ...(c.columns ?? comparisonColumns(c.lambda)).map((col): Column<ReportComparisonRow> => ({
+      key: col.key,
+      title: col.label,
+      align: 'right',
+      width: 120,
+      render: (x) => (x.standardErrors?.[col.key] ? `${x.display[col.key] ?? '—'}\n${x.standardErrors[col.key]}` : (x.display[col.key] ?? '—')),
+    })),
   ];
   return (
     <Screen title={r.title} subtitle={`${c.schemeName} · ${c.createdOn}${r.createdBy ? ` · by ${r.createdBy}` : ''}`}>
@@ -66,6 +68,11 @@ export default function ReportView() {
             <DataTable label={`Percentiles for ${rows[0].memberLabel}`} columns={pctColumns} rows={rows} rowKey={(x) => x.optionId} />
             <View style={{ height: space.md }} />
             <DataTable label={`Risk measures for ${rows[0].memberLabel}`} columns={riskColumns} rows={rows} rowKey={(x) => x.optionId} />
+            {(c.differences?.find((d) => d.memberId === m)?.sentences ?? []).map((d) => (
+              <Text key={d} style={styles.body}>
+                {d}
+              </Text>
+            ))}
           </Card>
         );
       })}

@@ -8,8 +8,9 @@ import { colors, space, type } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { useCreateReport, useFinishedRuns, useReports } from '@/hooks/useReports';
+import { count, dateTime } from '@/figures';
 
-const when = (d: string) => new Date(d).toLocaleString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+const when = (d: string) => dateTime(d);
 
 export default function Reports() {
   const { scheme, can } = useCurrentScheme();
@@ -74,8 +75,8 @@ function NewReport({ schemeId }: { schemeId: string }) {
           onChange={setRunId}
           options={runs.data.slice(0, 8).map((r) => ({
             value: r.id,
-            label: `${r.finishedAt ? new Date(r.finishedAt).toLocaleDateString('en-GB') : ''} · set v${r.assumptionSet.version}${r.assumptionsDraft ? ' DRAFT' : ''}`,
-            hint: `${r.options.length} options × ${r.members.length} members · ${r.paths.toLocaleString('en-GB')} paths`,
+            label: `${r.finishedAt ? dateTime(r.finishedAt) : ''} · set v${r.assumptionSet.version}${r.assumptionsDraft ? ' DRAFT' : ''}`,
+            hint: `${r.options.length} options × ${r.members.length} members · ${count(r.paths)} paths`,
           }))}
         />
       ) : null}

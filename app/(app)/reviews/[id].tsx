@@ -2,11 +2,11 @@ import { useMemo, useState } from 'react';
 import { Text, View, useWindowDimensions } from 'react-native';
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
-import { CheckChip } from '@/components/CheckChip';
+import { Chip } from '@/components/Chip';
 import { Choices } from '@/components/Choices';
 import { DownloadLink } from '@/components/DownloadLink';
 import { Tag } from '@/components/Tag';
-import { day } from '@/components/format';
+import { count, date, dateTime } from '@/figures';
 import { colors, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { ApiError, fieldError } from '@/hooks/api';
 import { useAssumptionSets } from '@/hooks/useAssumptions';
@@ -47,11 +47,11 @@ export default function ReviewScreen() {
   return (
     <Screen
       title={r.title}
-      subtitle={`Opened ${day(r.createdAt)}${r.openedBy ? ` by ${r.openedBy}` : ''}${r.updatedBy ? ` · last changed by ${r.updatedBy} on ${day(r.updatedAt)}` : ''}`}
+      subtitle={`Opened ${date(r.createdAt)}${r.openedBy ? ` by ${r.openedBy}` : ''}${r.updatedBy ? ` · last changed by ${r.updatedBy} on ${dateTime(r.updatedAt)}` : ''}`}
       actions={<DownloadLink href={recordHref(scheme.id, r.id)} label={final ? 'Decision record (PDF)' : 'Draft record (PDF)'} testID="record-pdf" />}
     >
       {final ? (
-        <Notice tone="success">{`Signed off on ${day(r.signedOffAt)} by ${r.signOffs.map((s) => s.name).join(' and ')}. This record can no longer change; the next review is due on ${day(r.nextReviewDue)}.`}</Notice>
+        <Notice tone="success">{`Signed off on ${date(r.signedOffAt)} by ${r.signOffs.map((s) => s.name).join(' and ')}. This record can no longer change; the next review is due on ${date(r.nextReviewDue)}.`}</Notice>
       ) : (
         <Tag label={`Open · ${r.signOffs.length} of ${r.quorum} signatures`} tone="warning" testID="review-status" />
       )}
@@ -84,12 +84,12 @@ function ReadReview({ review: r }: { review: Review }) {
         <Line label="How the board arrived at λ" value={r.lambdaCalibration || 'Not stated'} />
         <Line label="Reasons, in the board’s words" value={r.reasons || 'Not stated'} />
         <Line label="Dissent" value={r.dissent || 'None recorded'} />
-        {r.nextReviewDue ? <Line label="Next review due" value={day(r.nextReviewDue)} /> : null}
+        {r.nextReviewDue ? <Line label="Next review due" value={date(r.nextReviewDue)} /> : null}
       </Card>
       <Card title="What the trustees considered" style={{ flex: 1, alignSelf: 'stretch' }}>
-        <Line label="Assumptions" value={r.assumptionSet ? `Version ${r.assumptionSet.version}, set on ${day(r.assumptionSet.setAt)}; approved by ${r.assumptionSet.approvals.map((a) => a.name).join(' and ') || 'a trustee'}` : 'None named'} />
+        <Line label="Assumptions" value={r.assumptionSet ? `Version ${r.assumptionSet.version}, set on ${date(r.assumptionSet.setAt)}; approved by ${r.assumptionSet.approvals.map((a) => a.name).join(' and ') || 'a trustee'}` : 'None named'} />
         <Line label="Option versions" value={r.optionVersions.map((v) => `${v.name} v${v.version}${v.id === r.chosenVersionId ? ' (chosen)' : ''}`).join('; ') || 'None named'} />
-        <Line label="Projection runs" value={r.runs.map((x) => `${x.id.slice(0, 8)} (seed ${x.seed}, ${x.paths.toLocaleString('en-GB')} paths, engine ${x.engineVersion ?? '—'})`).join('; ') || 'None named'} />
+        <Line label="Projection runs" value={r.runs.map((x) => `${x.id.slice(0, 8)} (seed ${x.seed}, ${count(x.paths)} paths, engine ${x.engineVersion ?? '—'})`).join('; ') || 'None named'} />
         <Line label="Board reports" value={r.reports.map((x) => x.title).join('; ') || 'None named'} />
       </Card>
     </View>
@@ -150,13 +150,13 @@ function EditReview({ review: r, schemeId }: { review: Review; schemeId: string 
             {(sets.data ?? [])
               .filter((s) => s.status === 'approved')
               .map((s) => (
-                <CheckChip key={s.id} label={`Version ${s.version} · ${day(s.setAt)}`} selected={f.assumptionSetId === s.id} onPress={() => set({ assumptionSetId: f.assumptionSetId === s.id ? null : s.id })} />
+                <Chip key={s.id} label={`Version ${s.version} · ${date(s.setAt)}`} selected={f.assumptionSetId === s.id} onPress={() => set({ assumptionSetId: f.assumptionSetId === s.id ? null : s.id })} />
               ))}
           </View>
           <Text style={styles.label}>Option versions considered</Text>
           <View style={styles.row}>
             {versionChoices.map((v) => (
-              <CheckChip key={v.id} label={v.label} selected={f.optionVersionIds.includes(v.id)} onPress={() => set({ optionVersionIds: toggle(f.optionVersionIds, v.id) })} />
+              <Chip key={v.id} label={v.label} selected={f.optionVersionIds.includes(v.id)} onPress={() => set({ optionVersionIds: toggle(f.optionVersionIds, v.id) })} />
             ))}
           </View>
           <Text style={styles.label}>Projection runs</Text>
@@ -164,9 +164,9 @@ function EditReview({ review: r, schemeId }: { review: Review; schemeId: string 
           {!runs.isLoading && !doneRuns.length ? <Text style={styles.muted}>No finished runs yet: start a comparison under Projections.</Text> : null}
           <View style={styles.row}>
             {doneRuns.map((x) => (
-              <CheckChip
+              <Chip
                 key={x.id}
-                label={`${day(x.createdAt)} · ${x.options.length} options × ${x.members.length} members · seed ${x.seed}${x.stress ? ' · stress' : ''}`}
+                label={`${dateTime(x.createdAt)} · ${x.options.length} options × ${x.members.length} members · seed ${x.seed}${x.stress ? ' · stress' : ''}`}
                 note={x.assumptionsDraft ? 'DRAFT' : undefined}
                 selected={f.runIds.includes(x.id)}
                 onPress={() => set({ runIds: toggle(f.runIds, x.id) })}
@@ -177,7 +177,7 @@ function EditReview({ review: r, schemeId }: { review: Review; schemeId: string 
           {reports.data && !reports.data.reports.length ? <Text style={styles.muted}>No board reports yet.</Text> : null}
           <View style={styles.row}>
             {(reports.data?.reports ?? []).map((x) => (
-              <CheckChip key={x.id} label={`${x.title} · ${day(x.createdAt)}`} selected={f.reportIds.includes(x.id)} onPress={() => set({ reportIds: toggle(f.reportIds, x.id) })} />
+              <Chip key={x.id} label={`${x.title} · ${dateTime(x.createdAt)}`} selected={f.reportIds.includes(x.id)} onPress={() => set({ reportIds: toggle(f.reportIds, x.id) })} />
             ))}
           </View>
         </Card>
@@ -239,7 +239,7 @@ function Signatures({ review: r }: { review: Review }) {
       {r.signOffs.length ? (
         r.signOffs.map((s) => (
           <Text key={s.userId} style={styles.body} testID="signature">
-            ✓ Signed by <Text style={{ fontFamily: type.label.fontFamily }}>{s.name}</Text> on {day(s.at)}
+            ✓ Signed by <Text style={{ fontFamily: type.label.fontFamily }}>{s.name}</Text> on {date(s.at)}
           </Text>
         ))
       ) : (

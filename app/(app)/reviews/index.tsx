@@ -3,7 +3,7 @@ import { Pressable, Text, View } from 'react-native';
 import { Link, useRouter } from 'expo-router';
 import { Button, Card, Field, Loading, Notice, Screen, styles } from '@/components/ui';
 import { Tag } from '@/components/Tag';
-import { day } from '@/components/format';
+import { date, dateTime } from '@/figures';
 import { colors, MIN_TOUCH, space, type } from '@/constants/theme';
 import { fieldError } from '@/hooks/api';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
@@ -26,7 +26,7 @@ export default function Reviews() {
   const due = overview.data?.governance.nextReviewDue;
   return (
     <Screen title="Reviews of the default option" subtitle="Each review gathers the approved assumptions, the options considered, the runs and board reports, and the board's decision, signed by the scheme's quorum of trustees.">
-      {due ? <Notice>{`The next review is due on ${day(due)}.`}</Notice> : null}
+      {due ? <Notice>{`The next review is due on ${date(due)}.`}</Notice> : null}
       {can('reviews:edit') ? <OpenReview schemeId={scheme.id} /> : null}
       <Card title="Reviews">
         {list.isLoading ? <Loading /> : null}
@@ -41,8 +41,8 @@ export default function Reviews() {
               </View>
               <Text style={styles.muted}>
                 {r.status === 'signed_off'
-                  ? `Signed off ${day(r.signedOffAt)} · next review due ${day(r.nextReviewDue)}`
-                  : `Opened ${day(r.createdAt)}${r.openedBy ? ` by ${r.openedBy}` : ''} · last changed ${day(r.updatedAt)}`}
+                  ? `Signed off ${date(r.signedOffAt)} · next review due ${date(r.nextReviewDue)}`
+                  : `Opened ${date(r.createdAt)}${r.openedBy ? ` by ${r.openedBy}` : ''} · last changed ${dateTime(r.updatedAt)}`}
               </Text>
             </Pressable>
           </Link>

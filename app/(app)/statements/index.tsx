@@ -8,6 +8,7 @@ import { ProgressBar } from '@/components/ProgressBar';
 import { colors, radius, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
 import { exportFileUrl, statementFileUrl, useStartExport, useStatementExports, useStatementPreview, useStatementSources, type StatementText } from '@/hooks/useStatements';
+import { count, dateTime } from '@/figures';
 
 export default function Statements() {
   const { scheme, can } = useCurrentScheme();
@@ -45,7 +46,7 @@ function StatementsScreen({ schemeId }: { schemeId: string }) {
             label="Run"
             value={runId}
             onChange={setRunId}
-            options={sources.data!.runs.slice(0, 6).map((r) => ({ value: r.id, label: `${new Date(r.finishedAt).toLocaleDateString('en-GB')} · set v${r.assumptionSetVersion}${r.draft ? ' DRAFT' : ''}`, hint: `${r.paths.toLocaleString('en-GB')} paths` }))}
+            options={sources.data!.runs.slice(0, 6).map((r) => ({ value: r.id, label: `${dateTime(r.finishedAt)} · set v${r.assumptionSetVersion}${r.draft ? ' DRAFT' : ''}`, hint: `${count(r.paths)} paths` }))}
           />
           <Choices label="Default option" value={optionId} onChange={setOptionId} options={run.options.map((o) => ({ value: o.id, label: o.name }))} />
           <Choices label="Illustrative member" value={memberId} onChange={setMemberId} options={run.members.map((m) => ({ value: m.id, label: m.label, hint: `age ${m.age}, retires at ${m.retirementAge}` }))} testID="member-choice" />

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { assumptionSets, fundAssumptions, funds, illustrativeMembers, projectionRuns } from '../../../db/schema';
 import { insertOption } from '../../helpers/options';
 import type { Examples, Fixtures } from './types';
+import type { StoredResult } from '../../../server/jobs/result';
 
 /**
  * A tiny scheme dataset inside fx.schemeId (one fund, one option, one member), so that the
@@ -67,7 +68,8 @@ async function finishedRun(fx: Fixtures) {
         },
         stress: null,
       },
-      result: { kind: 'keelson-run-result', note: 'fixture' },
+      // Not a readable result on purpose: routes that need one must answer 409, not crash.
+      result: { kind: 'keelson-run-result', note: 'fixture' } as unknown as StoredResult,
       engineVersion: 'fixture',
       finishedAt: new Date(),
     })
