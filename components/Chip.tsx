@@ -11,14 +11,12 @@ export function Chip({ label, selected, onPress, note, kind = 'check', testID }:
   const border = selected || !pick ? colors.primary : colors.inputBorder;
   const background = selected ? (pick ? colors.primaryTint : colors.primary) : colors.surface;
   const ink = selected ? (pick ? colors.primary : colors.onPrimary) : pick ? colors.ink : colors.primary;
-  const semantics =
-    kind === 'radio'
-      ? ({ role: 'radio', 'aria-checked': selected } as const)
-      : { accessibilityRole: kind === 'check' ? ('checkbox' as const) : ('button' as const), accessibilityState: kind === 'check' ? { checked: selected } : { selected } };
+  // ARIA props (not accessibilityState, which react-native-web no longer maps): a check box or radio is checked, a toggle pressed.
+  const semantics = kind === 'toggle' ? ({ role: 'button', 'aria-pressed': selected } as const) : ({ role: kind === 'radio' ? 'radio' : 'checkbox', 'aria-checked': selected } as const);
   return (
     <Pressable
       {...semantics}
-      accessibilityLabel={note ? `${label} (${note})` : label}
+      aria-label={note ? `${label} (${note})` : label}
       onPress={onPress}
       testID={testID}
       style={{ minHeight: MIN_TOUCH, paddingHorizontal: space.md, justifyContent: 'center', borderRadius: radius.md, borderWidth: 1, borderColor: border, backgroundColor: background }}
