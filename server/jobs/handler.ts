@@ -8,7 +8,6 @@ import { runScenarioThreaded } from '../compute/threads';
 import { log as rootLog } from '../log';
 import { audit } from '../services/audit';
 import { queueSettings } from './queue';
-import type { ScenarioSnapshot } from '../services/scenario';
 import { compareResults, storeVariant, type StoredResult } from './result';
 
 export type HandlerOptions = {
@@ -82,8 +81,7 @@ export async function processRun(db: Db, runId: string, opts: HandlerOptions & {
 type RunRow = typeof projectionRuns.$inferSelect;
 
 function variantsOf(run: RunRow): ScenarioInput[] {
-
-  const snapshot = run.input as ScenarioSnapshot;
+  const snapshot = run.input;
   const variants: ScenarioInput[] = [snapshot.scenario];
   if (snapshot.stress) variants.push({ ...snapshot.scenario, stress: snapshot.stress });
   return variants;
@@ -141,7 +139,7 @@ async function computeAndStore(db: Db, run: RunRow, variants: ScenarioInput[], o
 
   if (run.rerunOf) {
     const [original] = await db.select({ result: projectionRuns.result }).from(projectionRuns).where(eq(projectionRuns.id, run.rerunOf));
-    const before = original?.result as StoredResult | null;
+    const before = original?.result ?? null;
     const diff = before ? compareResults(before, stored) : { path: '(result)', original: 'not available', rerun: 'computed' };
     stored.reproduction = { of: run.rerunOf, matches: diff === null, firstDifference: diff, checkedAt: new Date().toISOString() };
   }
