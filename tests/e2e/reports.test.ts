@@ -76,6 +76,8 @@ describe('reports and statements in the browser', () => {
         const median = money(run.result.base.result.results[0].atRetirement.percentiles.real.p50, 'GBP');
         await b.page.getByText(median, { exact: true }).first().waitFor();
         expect(await b.page.getByTestId('caution-notice').count()).toBe(1);
+        // Which option the differences are measured from, in the words the PDF prints.
+        expect(await b.page.getByTestId('report-baseline').innerText()).toMatch(/current default/);
         // A board reviewer reads and downloads, but does not send.
         expect(await b.page.getByRole('button', { name: 'E-mail to board reviewers' }).count()).toBe(0);
         await screenshot(b.page, `report-board-${name}`);

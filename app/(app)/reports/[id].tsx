@@ -61,6 +61,11 @@ export default function ReportView() {
         {email.error ? <Notice tone="error">{email.error.message}</Notice> : null}
       </Card>
       <CautionNotice draft={c.draft} />
+      {c.baseline ? (
+        <Text style={styles.muted} testID="report-baseline">
+          {c.baseline}
+        </Text>
+      ) : null}
       {members.map((m) => {
         const rows = c.comparison.filter((x) => x.memberId === m);
         return (
