@@ -52,11 +52,22 @@ const versionSummary = (v: VersionRow): VersionSummary => ({ id: v.id, version: 
 const content = (o: OptionInput | VersionRow) => ({ name: o.name, description: o.description, glidePath: o.glidePath });
 const label = (v: Pick<VersionRow, 'name' | 'version'>) => `${v.name} v${v.version}`;
 
-/** Points sorted from furthest to nearest retirement, with zero weights dropped. */
+/**
+ * Points sorted from furthest to nearest retirement, with zero weights dropped and the funds in
+ * id order — the order PostgreSQL's jsonb keeps them in, so a stored path and the same path as
+ * typed compare equal.
+ */
 function normalise(path: GlidePathPoint[]): GlidePathPoint[] {
   return [...path]
     .sort((a, b) => b.yearsToRetirement - a.yearsToRetirement)
-    .map((p) => ({ yearsToRetirement: p.yearsToRetirement, weights: Object.fromEntries(Object.entries(p.weights).filter(([, w]) => w > 0)) }));
+    .map((p) => ({
+      yearsToRetirement: p.yearsToRetirement,
+      weights: Object.fromEntries(
+        Object.entries(p.weights)
+          .filter(([, w]) => w > 0)
+          .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)),
+      ),
+    }));
 }
 
 const sameContent = (a: OptionInput, b: OptionInput) => a.name === b.name && a.description === b.description && JSON.stringify(normalise(a.glidePath)) === JSON.stringify(normalise(b.glidePath));
