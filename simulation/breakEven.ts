@@ -1,0 +1,232 @@
+import { findRoot } from './roots';
+import { influenceStandardError, logCeInfluence } from './uncertainty';
+import { BREAK_EVEN_RANGE } from './utility';
+
+/**
+ * Every λ in [−5, 50] at which two options' certainty-equivalent pots are equal.
+ *
+ * 1. Scan. For each option the curve ln CE(λ) and its slope are computed on a grid (step 0.25
+ *    up to λ = 10, then 1) from all the paths. With e = 1 − 2λ and dᵢ = ln Wᵢ − ref,
+ *      ln CE = ref + K(e)/e,  K(e) = ln mean exp(e dᵢ),  d ln CE/dλ = −2 (K′(e)/e − K(e)/e²),
+ *    K′ = Σ dᵢ exp(e dᵢ) / Σ exp(e dᵢ). On a run of equal e-steps exp(e dᵢ) is carried forward
+ *    by one multiplication per path (exp((e + Δ)dᵢ) = exp(e dᵢ)·exp(Δ dᵢ)), walking away from
+ *    e = 0 so the terms only shrink (ref = the largest log pot for e > 0, the smallest for e < 0).
+ * 2. Bracket. With f = ln CE_A − ln CE_B: a sign change of f between grid points brackets one
+ *    crossing; where f keeps its sign but its slope changes sign, the extremum is found (root
+ *    of f′) and, if f changes sign there, the cell holds two crossings.
+ * 3. Refine each bracket to 1e-9 with the bracketing root-finder on f computed exactly from
+ *    every path (not from the grid).
+ * 4. Standard error of each crossing by the delta method: λ* solves f(λ) = 0, so
+ *    SE(λ*) ≈ SE(f̂(λ*)) / |f′(λ*)|, SE(f̂) from the paired influence values of ln CE_A − ln CE_B
+ *    (uncertainty.ts), antithetic-aware; the interval is λ* ± 1.96 SE.
+ */
+
+/** The scan grid: −5 … 10 by 0.25, then 11 … 50 by 1. */
+export const SCAN_GRID: readonly number[] = (() => {
+  const grid: number[] = [];
+  for (let k = 0; k <= 60; k++) grid.push(-5 + k * 0.25);
+  for (let l = 11; l <= 50; l++) grid.push(l);
+  return grid;
+})();
+
+/** ln CE and its slope in λ on {@link SCAN_GRID}. */
+export interface CeCurve {
+  logCe: Float64Array;
+  slope: Float64Array;
+}
+
+/** ln CE(λ) and d ln CE/dλ computed directly from log pots (2 passes, one exp per path). */
+export function logCeWithSlope(logs: Float64Array, lambda: number): { value: number; slope: number } {
+  const n = logs.length;
+  const e = 1 - 2 * lambda;
+  let hasZero = false;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const l = logs[i];
+    if (l === -Infinity) hasZero = true;
+    else {
+      if (l < lo) lo = l;
+      if (l > hi) hi = l;
+    }
+  }
+  if (lo === Infinity) return { value: -Infinity, slope: 0 };
+  if (Math.abs(e) < 1e-9) {
+    if (hasZero) return { value: -Infinity, slope: 0 };
+    let s = 0;
+    for (let i = 0; i < n; i++) s += logs[i];
+    const m = s / n;
+    let v = 0;
+    for (let i = 0; i < n; i++) v += (logs[i] - m) ** 2;
+    return { value: m, slope: -v / n }; // d/dλ = −2·d/de and K″(0)/2 = variance/2
+  }
+  if (e < 0 && hasZero) return { value: -Infinity, slope: 0 };
+  const ref = e > 0 ? hi : lo;
+  let s0 = 0;
+  let s1 = 0;
+  for (let i = 0; i < n; i++) {
+    const d = logs[i] - ref;
+    if (d === -Infinity) continue;
+    const v = Math.exp(e * d);
+    s0 += v;
+    s1 += d * v;
+  }
+  const k = Math.log(s0 / n);
+  return { value: ref + k / e, slope: -2 * (s1 / s0 / e - k / (e * e)) };
+}
+
+/** ln CE and slope on {@link SCAN_GRID}, by the multiplicative scan described above. */
+export function ceCurve(logs: Float64Array): CeCurve {
+  const G = SCAN_GRID.length;
+  const logCe = new Float64Array(G);
+  const slope = new Float64Array(G);
+  const n = logs.length;
+  let hasZero = false;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const l = logs[i];
+    if (l === -Infinity) hasZero = true;
+    else {
+      if (l < lo) lo = l;
+      if (l > hi) hi = l;
+    }
+  }
+  const half = SCAN_GRID.indexOf(0.5);
+  const at = logCeWithSlope(logs, 0.5);
+  logCe[half] = at.value;
+  slope[half] = at.slope;
+  const d = new Float64Array(n);
+  const v = new Float64Array(n);
+  const r = new Float64Array(n);
+  // Runs of equal steps, each walked away from λ = ½: [from, to] as grid indices.
+  const runs: [number, number][] = [
+    [half - 1, 0],
+    [half + 1, SCAN_GRID.indexOf(10)],
+    [SCAN_GRID.indexOf(11), G - 1],
+  ];
+  for (const [from, to] of runs) {
+    const step = from <= to ? 1 : -1;
+    const e0 = 1 - 2 * SCAN_GRID[from];
+    if (lo === Infinity || (e0 < 0 && hasZero)) {
+      for (let k = from; k !== to + step; k += step) {
+        logCe[k] = -Infinity;
+        slope[k] = 0;
+      }
+      continue;
+    }
+    const de = from === to ? 0 : 1 - 2 * SCAN_GRID[from + step] - e0;
+    const ref = e0 > 0 ? hi : lo;
+    for (let i = 0; i < n; i++) {
+      d[i] = logs[i] - ref;
+      v[i] = d[i] === -Infinity ? 0 : Math.exp(e0 * d[i]);
+      r[i] = d[i] === -Infinity ? 0 : Math.exp(de * d[i]);
+    }
+    for (let k = from; k !== to + step; k += step) {
+      const e = 1 - 2 * SCAN_GRID[k];
+      let s0 = 0;
+      let s1 = 0;
+      for (let i = 0; i < n; i++) {
+        const vi = v[i];
+        s0 += vi;
+        if (vi !== 0) s1 += d[i] * vi;
+        v[i] = vi * r[i];
+      }
+      const kk = Math.log(s0 / n);
+      logCe[k] = ref + kk / e;
+      slope[k] = -2 * (s1 / s0 / e - kk / (e * e));
+    }
+  }
+  return { logCe, slope };
+}
+
+/** One crossing of two options' certainty-equivalent pots. */
+export interface Crossing {
+  lambda: number;
+  /** Delta-method standard error of λ (null when it cannot be estimated, e.g. a touching point). */
+  standardError: number | null;
+  /** λ ± 1.96 standard errors (null with the standard error). */
+  interval: [number, number] | null;
+  /** Which option has the higher certainty equivalent just above this λ. */
+  favouredAbove: 'A' | 'B';
+}
+
+export interface Crossings {
+  status: 'found' | 'none-in-range' | 'identical';
+  crossings: Crossing[];
+}
+
+/** Every crossing of options A and B in [−5, 50] (see the module comment). */
+export function findCrossings(
+  logsA: Float64Array,
+  logsB: Float64Array,
+  curveA: CeCurve,
+  curveB: CeCurve,
+  antithetic: boolean,
+): Crossings {
+  const G = SCAN_GRID.length;
+  const f = new Float64Array(G);
+  const fp = new Float64Array(G);
+  let identical = true;
+  for (let k = 0; k < G; k++) {
+    const a = curveA.logCe[k];
+    const b = curveB.logCe[k];
+    f[k] = a === b ? 0 : a - b; // both −∞ counts as equal
+    fp[k] = curveA.slope[k] - curveB.slope[k];
+    if (Math.abs(f[k]) > 1e-13 * Math.max(Math.abs(a), 1) || !Number.isFinite(f[k])) identical = false;
+  }
+  if (identical) return { status: 'identical', crossings: [] };
+  const exact = (lambda: number) => {
+    const a = logCeWithSlope(logsA, lambda);
+    const b = logCeWithSlope(logsB, lambda);
+    return { f: a.value === b.value ? 0 : a.value - b.value, slope: a.slope - b.slope };
+  };
+  const F = (lambda: number) => exact(lambda).f;
+  const found: number[] = [];
+  // A root of g in [a, b] when g changes sign there (computed exactly at both ends), else none.
+  const rootIn = (g: (l: number) => number, a: number, b: number, tolerance: number): number | null => {
+    const ga = g(a);
+    const gb = g(b);
+    if (ga === 0) return a;
+    if (gb === 0) return b;
+    return ga * gb < 0 ? findRoot(g, a, b, tolerance) : null;
+  };
+  const [low, high] = BREAK_EVEN_RANGE;
+  for (let k = 0; k + 1 < G; k++) {
+    const a = SCAN_GRID[k];
+    const b = SCAN_GRID[k + 1];
+    if (a < low || b > high || !Number.isFinite(f[k]) || !Number.isFinite(f[k + 1])) continue;
+    if (f[k] === 0 || f[k + 1] === 0 || f[k] * f[k + 1] < 0) {
+      const root = rootIn(F, a, b, 1e-9);
+      if (root !== null) found.push(root);
+    } else if (fp[k] * fp[k + 1] < 0 && f[k] * fp[k] < 0) {
+      // f moves towards zero and turns back inside the cell: look at the turning point.
+      const turn = rootIn((l) => exact(l).slope, a, b, 1e-10);
+      if (turn === null) continue;
+      const atTurn = F(turn);
+      if (atTurn === 0) found.push(turn);
+      else if (atTurn * f[k] < 0) {
+        const left = rootIn(F, a, turn, 1e-9);
+        const right = rootIn(F, turn, b, 1e-9);
+        if (left !== null) found.push(left);
+        if (right !== null) found.push(right);
+      }
+    }
+  }
+  const roots = found.sort((x, y) => x - y).filter((x, i, all) => i === 0 || x - all[i - 1] > 1e-8);
+  if (roots.length === 0) return { status: 'none-in-range', crossings: [] };
+  const psiA = new Float64Array(logsA.length);
+  const psiB = new Float64Array(logsB.length);
+  const crossings = roots.map((lambda): Crossing => {
+    logCeInfluence(logsA, lambda, psiA);
+    logCeInfluence(logsB, lambda, psiB);
+    for (let i = 0; i < psiA.length; i++) psiA[i] -= psiB[i];
+    const seF = influenceStandardError(psiA, antithetic);
+    const slope = exact(lambda).slope;
+    const se = seF !== null && slope !== 0 && Number.isFinite(slope) ? seF / Math.abs(slope) : null;
+    let favouredAbove: 'A' | 'B' = slope > 0 ? 'A' : 'B';
+    if (slope === 0) favouredAbove = F(lambda + 1e-6) > 0 ? 'A' : 'B';
+    return { lambda, standardError: se, interval: se === null ? null : [lambda - 1.96 * se, lambda + 1.96 * se], favouredAbove };
+  });
+  return { status: 'found', crossings };
+}
