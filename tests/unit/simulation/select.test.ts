@@ -1,0 +1,52 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+
+import { percentileOfSelected, percentileRanks, selectInPlace, selectManyInPlace } from '@/simulation';
+import { percentileOfSorted } from '@/simulation/statistics';
+
+describe('selection instead of sorting', () => {
+  it('places every asked rank as a full sort would, and gives the same percentiles', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: -1e6, max: 1e6, noNaN: true }), { minLength: 1, maxLength: 3000 }),
+        fc.uniqueArray(fc.double({ min: 0.1, max: 99.9, noNaN: true }), { minLength: 1, maxLength: 9 }),
+        fc.boolean(),
+        (raw, percentiles, single) => {
+          // −0 and +0 compare equal, so selection may return either where a sort puts −0 first (pots are never −0).
+          const values = raw.map((v) => (Math.fround(v) === 0 ? 0 : v));
+          const sorted = Float64Array.from(values).sort();
+          const a = Float64Array.from(values);
+          const b = Float32Array.from(values);
+          const ranks = percentileRanks(a.length, percentiles);
+          selectManyInPlace(a, ranks);
+          selectManyInPlace(b, ranks);
+          const sorted32 = Float32Array.from(values).sort();
+          for (const r of ranks) {
+            expect(a[r]).toBe(sorted[r]);
+            expect(b[r]).toBe(sorted32[r]);
+          }
+          for (const p of percentiles) {
+            expect(percentileOfSelected(a, p)).toBe(percentileOfSorted(sorted, p));
+            expect(percentileOfSelected(b, p)).toBe(percentileOfSorted(sorted32, p));
+          }
+          if (single) {
+            const k = Math.floor(values.length / 3);
+            const c = Float64Array.from(values);
+            selectInPlace(c, k);
+            for (let i = 0; i < c.length; i++) expect(i < k ? c[i] <= c[k] : c[i] >= c[k]).toBe(true);
+          }
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+
+  it('handles large ranges (Floyd–Rivest sampling) and many ties', () => {
+    const n = 50001;
+    const values = Float64Array.from({ length: n }, (_, i) => ((i * 7919) % 1000) / 10);
+    const sorted = values.slice().sort();
+    const ranks = percentileRanks(n, [1, 5, 50, 95, 99]);
+    selectManyInPlace(values, ranks);
+    for (const r of ranks) expect(values[r]).toBe(sorted[r]);
+  });
+});
