@@ -1,4 +1,5 @@
 import { findCrossings, type CeCurve, type Crossing } from './breakEven';
+import type { MemberTimeline } from './cashflows';
 import type { PreparedScenario } from './prepare';
 import { percentileOfSelected, percentileRanks, selectManyInPlace } from './select';
 import {
@@ -6,17 +7,16 @@ import {
   influenceStandardError,
   logCeInfluence,
   quantileInfluence,
-  shareInfluence,
   sparsityLevels,
   type Difference,
 } from './uncertainty';
-import { breakEvenLambda, certaintyEquivalentPot, logPots, type BreakEven } from './utility';
+import { breakEvenLambda, ceAnnualReturn, ceRealReturn, certaintyEquivalentPot, logPots, type BreakEven } from './utility';
 
 /**
- * Two options compared for one member on the same paths (paired: common random numbers make
- * the two options' figures move together, and the standard errors of the differences count
- * that). Every difference is option A minus option B, in real money or as a probability, with
- * its antithetic-aware standard error and whether it is too close to call (uncertainty.ts).
+ * Options compared for one member on the same paths (paired: common random numbers make the
+ * options' figures move together, and the standard errors of the differences count that).
+ * Every difference is option A minus option B, in real money or as a probability, with its
+ * antithetic-aware standard error and whether it is too close to call (uncertainty.ts).
  *
  * - certaintyEquivalent: CE_A − CE_B at λ; influence values CE_A·ψᵢᴬ − CE_B·ψᵢᴮ with ψ those of
  *   ln CE.
@@ -24,6 +24,9 @@ import { breakEvenLambda, certaintyEquivalentPot, logPots, type BreakEven } from
  *   (Bahadur representation, sparsity by the Hall–Sheather difference quotient), differenced.
  * - probabilityReachingTarget: share of paths reaching the member's target, A minus B;
  *   influence values 1{Wᵢᴬ ≥ t} − 1{Wᵢᴮ ≥ t} (null when there is no target).
+ *
+ * The influence values of each option are computed once per member (memory: three arrays of
+ * `paths` values per option), then every pair of options is a subtraction.
  */
 export interface OptionComparison {
   memberId: string;
@@ -48,71 +51,67 @@ export interface BreakEvenResult extends BreakEven {
   crossings: Crossing[];
 }
 
-/** The figures of comparing A with B at λ (ids added by the caller). */
-export function compareOptions(
-  potsA: Float64Array,
-  potsB: Float64Array,
-  opts: { lambda: number; targetRealPot: number | null; antithetic: boolean; logsA?: Float64Array; logsB?: Float64Array },
-): Omit<OptionComparison, 'memberId' | 'optionA' | 'optionB'> {
-  const n = potsA.length;
-  const { lambda, antithetic } = opts;
-  const psiA = new Float64Array(n);
-  const psiB = new Float64Array(n);
-  logCeInfluence(opts.logsA ?? logPots(potsA), lambda, psiA);
-  logCeInfluence(opts.logsB ?? logPots(potsB), lambda, psiB);
-  const ceA = certaintyEquivalentPot(potsA, lambda);
-  const ceB = certaintyEquivalentPot(potsB, lambda);
-  for (let i = 0; i < n; i++) psiA[i] = ceA * psiA[i] - ceB * psiB[i];
-  const certaintyEquivalent = difference(ceA - ceB, influenceStandardError(psiA, antithetic), n);
-
-  const medianA = medianInfluence(potsA, psiA);
-  const medianB = medianInfluence(potsB, psiB);
-  for (let i = 0; i < n; i++) psiA[i] -= psiB[i];
-  const medianPot = difference(medianA - medianB, influenceStandardError(psiA, antithetic), n);
-
-  let probabilityReachingTarget: Difference | null = null;
-  const t = opts.targetRealPot;
-  if (t !== null && t > 0) {
-    shareInfluence(potsA, t, psiA);
-    shareInfluence(potsB, t, psiB);
-    let reachA = 0;
-    let reachB = 0;
-    for (let i = 0; i < n; i++) {
-      if (potsA[i] >= t) reachA++;
-      if (potsB[i] >= t) reachB++;
-      psiA[i] -= psiB[i];
-    }
-    probabilityReachingTarget = difference(reachA / n - reachB / n, influenceStandardError(psiA, antithetic), n);
-  }
-  return { lambda, certaintyEquivalent, medianPot, probabilityReachingTarget };
+/** One option's figures for one member at λ, with their influence values. */
+export interface OptionInfluence {
+  cePot: number;
+  /** Influence values of the CE pot (CE·ψ of ln CE). */
+  ce: Float64Array;
+  median: number;
+  medianPsi: Float64Array;
+  /** Share of paths at or above the target, and each path's indicator (null without a target). */
+  share: number | null;
+  reached: Uint8Array | null;
 }
 
-/** The sample median of `pots` (percentile rule of the engine) and its influence values into `out`. */
-function medianInfluence(pots: Float64Array, out: Float64Array): number {
+/** See {@link OptionInfluence}. */
+export function optionInfluence(pots: Float64Array, lambda: number, targetRealPot: number | null, logs: Float64Array = logPots(pots)): OptionInfluence {
   const n = pots.length;
+  const ce = new Float64Array(n);
+  logCeInfluence(logs, lambda, ce);
+  const cePot = certaintyEquivalentPot(pots, lambda);
+  for (let i = 0; i < n; i++) ce[i] *= cePot;
+  const medianPsi = new Float64Array(n);
   const levels = sparsityLevels(0.5, n);
   const copy = pots.slice();
   selectManyInPlace(copy, percentileRanks(n, [50, levels[0] * 100, levels[1] * 100]));
   const median = percentileOfSelected(copy, 50);
-  const atLevels: [number, number] = [percentileOfSelected(copy, levels[0] * 100), percentileOfSelected(copy, levels[1] * 100)];
-  quantileInfluence(pots, 0.5, median, levels, atLevels, out);
-  return median;
+  quantileInfluence(pots, 0.5, median, levels, [percentileOfSelected(copy, levels[0] * 100), percentileOfSelected(copy, levels[1] * 100)], medianPsi);
+  let share: number | null = null;
+  let reached: Uint8Array | null = null;
+  if (targetRealPot !== null && targetRealPot > 0) {
+    reached = new Uint8Array(n);
+    let count = 0;
+    for (let i = 0; i < n; i++) if (pots[i] >= targetRealPot) (reached[i] = 1), count++;
+    share = count / n;
+  }
+  return { cePot, ce, median, medianPsi, share, reached };
 }
 
-/** One member × pair of options to compare (indices into the scenario's lists). */
-export interface ComparisonTask {
-  memberIndex: number;
-  optionA: number;
-  optionB: number;
+/** A minus B from their influence values (same paths). */
+export function compareInfluences(a: OptionInfluence, b: OptionInfluence, lambda: number, antithetic: boolean): Omit<OptionComparison, 'memberId' | 'optionA' | 'optionB'> {
+  const n = a.ce.length;
+  const psi = new Float64Array(n);
+  for (let i = 0; i < n; i++) psi[i] = a.ce[i] - b.ce[i];
+  const certaintyEquivalent = difference(a.cePot - b.cePot, influenceStandardError(psi, antithetic), n);
+  for (let i = 0; i < n; i++) psi[i] = a.medianPsi[i] - b.medianPsi[i];
+  const medianPot = difference(a.median - b.median, influenceStandardError(psi, antithetic), n);
+  let probabilityReachingTarget: Difference | null = null;
+  if (a.reached && b.reached && a.share !== null && b.share !== null) {
+    for (let i = 0; i < n; i++) psi[i] = a.reached[i] - b.reached[i];
+    probabilityReachingTarget = difference(a.share - b.share, influenceStandardError(psi, antithetic), n);
+  }
+  return { lambda, certaintyEquivalent, medianPot, probabilityReachingTarget };
 }
 
-/** Every member × pair of options (a < b), member by member. */
-export function comparisonTasks(prepared: PreparedScenario): ComparisonTask[] {
-  const tasks: ComparisonTask[] = [];
-  const M = prepared.scenario.members.length;
-  const O = prepared.scenario.options.length;
-  for (let m = 0; m < M; m++) for (let a = 0; a < O; a++) for (let b = a + 1; b < O; b++) tasks.push({ memberIndex: m, optionA: a, optionB: b });
-  return tasks;
+/** The figures of comparing A with B at λ (ids added by the caller). */
+export function compareOptions(
+  potsA: Float64Array,
+  potsB: Float64Array,
+  opts: { lambda: number; targetRealPot: number | null; antithetic: boolean },
+): Omit<OptionComparison, 'memberId' | 'optionA' | 'optionB'> {
+  const a = optionInfluence(potsA, opts.lambda, opts.targetRealPot);
+  const b = optionInfluence(potsB, opts.lambda, opts.targetRealPot);
+  return compareInfluences(a, b, opts.lambda, opts.antithetic);
 }
 
 /** Index of the pair (option, member) in prepared.pairs. */
@@ -120,41 +119,126 @@ export function pairIndexOf(prepared: PreparedScenario, optionIndex: number, mem
   return optionIndex * prepared.scenario.members.length + memberIndex;
 }
 
+/** Every pair of options (a < b) in the scenario's order. */
+export function optionPairs(options: number): [number, number][] {
+  const pairs: [number, number][] = [];
+  for (let a = 0; a < options; a++) for (let b = a + 1; b < options; b++) pairs.push([a, b]);
+  return pairs;
+}
+
 export interface ComparedPair {
   breakEven: BreakEvenResult;
   comparison: OptionComparison;
 }
 
-/** Break-even λs and the comparison at the run's λ for one task, from the two pairs' real pots and curves. */
-export function compareTask(
+/**
+ * Break-even λs and the comparison at the run's λ for every pair of options of one member,
+ * from each option's real pots and CE curve (in option order). Pairs in the order of
+ * optionPairs.
+ */
+export function compareMember(
   prepared: PreparedScenario,
-  task: ComparisonTask,
-  potsA: Float64Array,
-  potsB: Float64Array,
-  curveA: CeCurve,
-  curveB: CeCurve,
+  memberIndex: number,
+  pots: readonly Float64Array[],
+  curves: readonly CeCurve[],
   targetRealPot: number,
-): ComparedPair {
+): ComparedPair[] {
   const { scenario } = prepared;
-  const ids = { memberId: scenario.members[task.memberIndex].id, optionA: scenario.options[task.optionA].id, optionB: scenario.options[task.optionB].id };
-  const logsA = logPots(potsA);
-  const logsB = logPots(potsB);
-  const found = findCrossings(logsA, logsB, curveA, curveB, scenario.antithetic);
-  const first: BreakEven =
-    scenario.version === 1
-      ? breakEvenLambda(potsA, potsB)
-      : { lambda: found.crossings[0]?.lambda ?? null, status: found.status };
-  return {
-    breakEven: { ...ids, ...first, crossings: found.crossings },
-    comparison: {
-      ...ids,
-      ...compareOptions(potsA, potsB, {
-        lambda: scenario.riskAversion,
-        targetRealPot: targetRealPot > 0 ? targetRealPot : null,
-        antithetic: scenario.antithetic,
-        logsA,
-        logsB,
+  const lambda = scenario.riskAversion;
+  const target = targetRealPot > 0 ? targetRealPot : null;
+  const logs = pots.map(logPots);
+  const influence = pots.map((p, o) => optionInfluence(p, lambda, target, logs[o]));
+  const memberId = scenario.members[memberIndex].id;
+  return optionPairs(scenario.options.length).map(([a, b]) => {
+    const ids = { memberId, optionA: scenario.options[a].id, optionB: scenario.options[b].id };
+    const found = findCrossings(logs[a], logs[b], curves[a], curves[b], scenario.antithetic);
+    const first: BreakEven =
+      scenario.version === 1 ? breakEvenLambda(pots[a], pots[b]) : { lambda: found.crossings[0]?.lambda ?? null, status: found.status };
+    return {
+      breakEven: { ...ids, ...first, crossings: found.crossings },
+      comparison: { ...ids, ...compareInfluences(influence[a], influence[b], lambda, scenario.antithetic) },
+    };
+  });
+}
+
+/** One option for one member at a chosen λ. */
+export interface PairAtLambda {
+  optionId: string;
+  memberId: string;
+  certaintyEquivalent: { realPot: number; realAnnualReturn: number | null; standardError: number | null };
+}
+
+/** A member's options from the highest certainty equivalent down, each against the next. */
+export interface MemberRanking {
+  memberId: string;
+  options: {
+    optionId: string;
+    realPot: number;
+    /** This option minus the next one down (null for the last). */
+    toNext: Difference | null;
+  }[];
+}
+
+export interface ComparisonAtLambda {
+  lambda: number;
+  pairs: PairAtLambda[];
+  differences: OptionComparison[];
+  ranking: MemberRanking[];
+}
+
+/**
+ * Certainty equivalents, their returns and standard errors, every paired difference and the
+ * ranking at any λ, from every path's real pot — `pots(optionIndex, memberIndex)` — of a run of
+ * `prepared` (exact: nothing is re-simulated or sampled).
+ */
+export function comparisonAtLambda(
+  prepared: PreparedScenario,
+  pots: (optionIndex: number, memberIndex: number) => Float64Array,
+  lambda: number,
+): ComparisonAtLambda {
+  const { scenario } = prepared;
+  const pairs: PairAtLambda[] = [];
+  const differences: OptionComparison[] = [];
+  const ranking: MemberRanking[] = [];
+  scenario.members.forEach((member, m) => {
+    const first = prepared.pairs[pairIndexOf(prepared, 0, m)];
+    const target = first.timeline.realFinalSalary * scenario.targetReplacementRatio * prepared.annuityFactor;
+    const influence = scenario.options.map((_, o) => optionInfluence(pots(o, m), lambda, target > 0 ? target : null));
+    const own: OptionComparison[] = [];
+    for (const [a, b] of optionPairs(scenario.options.length)) {
+      own.push({ memberId: member.id, optionA: scenario.options[a].id, optionB: scenario.options[b].id, ...compareInfluences(influence[a], influence[b], lambda, scenario.antithetic) });
+    }
+    differences.push(...own);
+    scenario.options.forEach((option, o) => {
+      const inf = influence[o];
+      const se = influenceStandardError(inf.ce, scenario.antithetic);
+      pairs.push({
+        optionId: option.id,
+        memberId: member.id,
+        certaintyEquivalent: { realPot: inf.cePot, realAnnualReturn: ceReturn(prepared, first.timeline, inf.cePot), standardError: se },
+      });
+    });
+    const order = scenario.options.map((_, o) => o).sort((x, y) => influence[y].cePot - influence[x].cePot);
+    ranking.push({
+      memberId: member.id,
+      options: order.map((o, k) => {
+        const next = order[k + 1];
+        let toNext: Difference | null = null;
+        if (next !== undefined) {
+          const d = own.find((c) => c.optionA === scenario.options[Math.min(o, next)].id && c.optionB === scenario.options[Math.max(o, next)].id)!.certaintyEquivalent;
+          toNext = o < next ? d : { ...d, value: -d.value };
+        }
+        return { optionId: scenario.options[o].id, realPot: influence[o].cePot, toNext };
       }),
-    },
-  };
+    });
+  });
+  return { lambda, pairs, differences, ranking };
+}
+
+/** The CE real return under the scenario's format and conventions. */
+export function ceReturn(prepared: PreparedScenario, timeline: MemberTimeline, cePot: number): number | null {
+  const { scenario } = prepared;
+  return scenario.version === 1
+    ? ceAnnualReturn(cePot, { initialPot: timeline.initialPot, contributions: timeline.realContributions })
+    : ceRealReturn(cePot, timeline, scenario.timing.contributions);
 }

@@ -66,6 +66,12 @@ export const FORMAT_ONE_CONVENTIONS: Conventions = {
   contributionBasis: { basis: 'full-salary' },
 };
 
+/** What a format-2 scenario runs with when it names no conventions. */
+export const FORMAT_TWO_DEFAULTS: Conventions = {
+  timing: { glideWeights: 'mid-year', contributions: 'spread' },
+  contributionBasis: { basis: 'full-salary' },
+};
+
 /** Years to retirement at which year y of n reads the glide path. */
 export function glideReadingPoint(timing: Timing, years: number, y: number): number {
   return timing.glideWeights === 'mid-year' ? years - y - 0.5 : years - y;

@@ -37,6 +37,7 @@ export {
   CONTRIBUTION_TIMINGS,
   ContributionBasisSchema,
   FORMAT_ONE_CONVENTIONS,
+  FORMAT_TWO_DEFAULTS,
   GLIDE_WEIGHT_TIMINGS,
   TimingSchema,
   UK_QUALIFYING_EARNINGS,
@@ -76,14 +77,21 @@ export {
 } from './uncertainty';
 export { SCAN_GRID, ceCurve, findCrossings, logCeWithSlope, type CeCurve, type Crossing, type Crossings } from './breakEven';
 export {
+  ceReturn,
+  compareInfluences,
+  compareMember,
   compareOptions,
-  compareTask,
-  comparisonTasks,
+  comparisonAtLambda,
+  optionInfluence,
+  optionPairs,
   pairIndexOf,
   type BreakEvenResult,
   type ComparedPair,
-  type ComparisonTask,
+  type ComparisonAtLambda,
+  type MemberRanking,
   type OptionComparison,
+  type OptionInfluence,
+  type PairAtLambda,
 } from './compare';
 export {
   DEFAULT_BAND_BUDGET_BYTES,
@@ -104,4 +112,4 @@ export {
   type PercentileValues,
   type ProjectionResult,
 } from './summary';
-export { SIMULATE_SHARE, runComparison, runScenario, type RunOptions } from './run';
+export { SIMULATE_SHARE, runMemberComparison, runScenario, type RunOptions } from './run';

@@ -1,5 +1,5 @@
 import type { CeCurve } from './breakEven';
-import { compareTask, comparisonTasks, pairIndexOf, type ComparedPair } from './compare';
+import { compareMember, pairIndexOf, type ComparedPair } from './compare';
 import { DEFAULT_BAND_BUDGET_BYTES, planBatches, prepareScenario, type PreparedScenario } from './prepare';
 import { createPairStores, simulateRange } from './project';
 import { parseScenario } from './schema';
@@ -24,7 +24,7 @@ export const SIMULATE_SHARE = 0.8;
  *    per block of paths for the whole batch;
  * 2. summarise — each pair of the batch (bands, figures at retirement, standard errors, CE
  *    curve); the batch's per-age storage is then released;
- * 3. compare — every member × pair of options (break-even λs, differences at the run's λ).
+ * 3. compare — member by member, every pair of options (break-even λs, differences at the run's λ).
  * Retained: the terminal real pots, 8 bytes × paths per pair, plus the summaries.
  *
  * Throws ScenarioValidationError (with every issue) for invalid input.
@@ -48,18 +48,23 @@ export function runScenario(input: unknown, options: RunOptions = {}): Projectio
     }
     progress?.((b + 1) / batches.length);
   });
-  const compared = comparisonTasks(prepared).map((task) => runComparison(prepared, task, results, curves));
+  const compared = scenario.members.flatMap((_, m) => runMemberComparison(prepared, m, results, curves));
   return assembleResult(prepared, results, compared);
 }
 
-/** Phase 3 for one task, from the summarised pairs. */
-export function runComparison(
+/** Phase 3 for one member, from the summarised pairs (real pots and CE curves, in pair order). */
+export function runMemberComparison(
   prepared: PreparedScenario,
-  task: Parameters<typeof compareTask>[1],
+  memberIndex: number,
   results: readonly { terminalRealPots: Float64Array; atRetirement: { targetRealPot: number } }[],
   curves: readonly CeCurve[],
-): ComparedPair {
-  const a = pairIndexOf(prepared, task.optionA, task.memberIndex);
-  const b = pairIndexOf(prepared, task.optionB, task.memberIndex);
-  return compareTask(prepared, task, results[a].terminalRealPots, results[b].terminalRealPots, curves[a], curves[b], results[a].atRetirement.targetRealPot);
+): ComparedPair[] {
+  const indices = prepared.scenario.options.map((_, o) => pairIndexOf(prepared, o, memberIndex));
+  return compareMember(
+    prepared,
+    memberIndex,
+    indices.map((i) => results[i].terminalRealPots),
+    indices.map((i) => curves[i]),
+    results[indices[0]].atRetirement.targetRealPot,
+  );
 }

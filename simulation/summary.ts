@@ -1,5 +1,5 @@
 import { ceCurve, type CeCurve } from './breakEven';
-import type { BreakEvenResult, ComparedPair, OptionComparison } from './compare';
+import { ceReturn, type BreakEvenResult, type ComparedPair, type OptionComparison } from './compare';
 import type { Conventions } from './conventions';
 import type { PreparedScenario } from './prepare';
 import type { PairStore } from './project';
@@ -13,7 +13,7 @@ import {
   sparsityLevels,
   tailMeanInfluence,
 } from './uncertainty';
-import { ceAnnualReturn, ceRealReturn, certaintyEquivalentPot, logPots } from './utility';
+import { certaintyEquivalentPot, logPots } from './utility';
 import { ENGINE_VERSION } from './version';
 
 /** Percentile values keyed "p5", "p50", … */
@@ -226,9 +226,7 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
       certaintyEquivalent: {
         lambda,
         realPot: cePot,
-        realAnnualReturn: formatOne
-          ? ceAnnualReturn(cePot, { initialPot: timeline.initialPot, contributions: timeline.realContributions })
-          : ceRealReturn(cePot, timeline, scenario.timing.contributions),
+        realAnnualReturn: ceReturn(prepared, timeline, cePot),
       },
       uncertainty: {
         percentiles: { real: percentileErrors },
@@ -243,8 +241,8 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
 }
 
 /**
- * Assemble the run's result from every pair's summary (in pair order) and every comparison
- * task's figures (in the order of comparisonTasks).
+ * Assemble the run's result from every pair's summary (in pair order) and the comparisons
+ * (member by member, option pairs in the order of optionPairs).
  */
 export function assembleResult(prepared: PreparedScenario, results: PairResult[], compared: ComparedPair[]): ProjectionResult {
   const { scenario } = prepared;

@@ -1,4 +1,4 @@
-import type { ComparedPair, ComparisonTask } from '../../simulation/compare';
+import type { ComparedPair } from '../../simulation/compare';
 import type { CeCurve } from '../../simulation/breakEven';
 import type { Scenario } from '../../simulation/schema';
 import type { PairResult } from '../../simulation/summary';
@@ -17,13 +17,13 @@ export type ComputeJob =
   | { type: 'simulate'; jobId: number; scenario: Scenario; start: number; end: number; stores: SharedStore[] }
   /** Summarise these pairs (all paths simulated); real pots come back in shared memory. */
   | { type: 'summarise'; jobId: number; scenario: Scenario; stores: SharedStore[] }
-  /** Break-even λs and comparisons for these tasks, from the pairs' real pots and curves. */
+  /** Break-even λs and comparisons for these members, from their pairs' real pots and curves. */
   | {
       type: 'compare';
       jobId: number;
       scenario: Scenario;
-      tasks: ComparisonTask[];
-      /** Per pair index: real pots (shared), CE curve and target real pot. */
+      members: number[];
+      /** Per pair index (every option of those members): real pots (shared), CE curve and target real pot. */
       pairs: Record<number, { pots: SharedArrayBuffer; curve: CeCurve; targetRealPot: number }>;
     };
 
@@ -35,5 +35,5 @@ export type WorkerReply =
   | { type: 'progress'; jobId: number; fraction: number }
   | { type: 'simulated'; jobId: number }
   | { type: 'summarised'; jobId: number; summaries: SummarisedPair[] }
-  | { type: 'compared'; jobId: number; compared: ComparedPair[] }
+  | { type: 'compared'; jobId: number; compared: ComparedPair[][] }
   | { type: 'error'; jobId: number; message: string; name: string };

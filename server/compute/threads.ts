@@ -3,7 +3,7 @@ import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 
 import type { CeCurve } from '../../simulation/breakEven';
-import { comparisonTasks, pairIndexOf, type ComparedPair, type ComparisonTask } from '../../simulation/compare';
+import { pairIndexOf, type ComparedPair } from '../../simulation/compare';
 import { DEFAULT_BAND_BUDGET_BYTES, planBatches, prepareScenario, type PreparedScenario } from '../../simulation/prepare';
 import { BLOCK_PATHS, createPairStores, type PairStore } from '../../simulation/project';
 import { SIMULATE_SHARE } from '../../simulation/run';
@@ -210,27 +210,25 @@ export async function runScenarioThreaded(input: unknown, options: ThreadedRunOp
   }
 }
 
-/** Phase 3 on the workers: tasks shared out, each worker reading the pots it needs from shared memory. */
+/** Phase 3 on the workers: members shared out, each worker reading the pots it needs from shared memory. */
 async function compareAll(prepared: PreparedScenario, pool: ComputePool, results: PairResult[], curves: CeCurve[], nextId: () => number): Promise<ComparedPair[]> {
-  const tasks = comparisonTasks(prepared);
-  if (tasks.length === 0) return [];
-  const order = new Map(tasks.map((t, i) => [t, i]));
-  const groups = balance(tasks, pool.size, () => 1);
-  const out: ComparedPair[] = new Array(tasks.length);
+  const { scenario } = prepared;
+  if (scenario.options.length < 2) return [];
+  const members = scenario.members.map((_, m) => m);
+  const groups = balance(members, pool.size, () => 1);
+  const perMember: ComparedPair[][] = new Array(members.length);
   await Promise.all(
     groups.map(async (group, k) => {
       const pairs: Record<number, { pots: SharedArrayBuffer; curve: CeCurve; targetRealPot: number }> = {};
-      const need = (task: ComparisonTask, option: number) => {
-        const i = pairIndexOf(prepared, option, task.memberIndex);
-        pairs[i] = { pots: results[i].terminalRealPots.buffer as SharedArrayBuffer, curve: curves[i], targetRealPot: results[i].atRetirement.targetRealPot };
-      };
-      for (const task of group) {
-        need(task, task.optionA);
-        need(task, task.optionB);
+      for (const m of group) {
+        scenario.options.forEach((_, o) => {
+          const i = pairIndexOf(prepared, o, m);
+          pairs[i] = { pots: results[i].terminalRealPots.buffer as SharedArrayBuffer, curve: curves[i], targetRealPot: results[i].atRetirement.targetRealPot };
+        });
       }
-      const reply = await pool.worker(k).run({ type: 'compare', jobId: nextId(), scenario: prepared.scenario, tasks: group, pairs }, 'compared');
-      reply.compared.forEach((c, i) => (out[order.get(group[i])!] = c));
+      const reply = await pool.worker(k).run({ type: 'compare', jobId: nextId(), scenario, members: group, pairs }, 'compared');
+      reply.compared.forEach((c, i) => (perMember[group[i]] = c));
     }),
   );
-  return out;
+  return perMember.flat();
 }

@@ -1,8 +1,9 @@
 import { parentPort } from 'node:worker_threads';
 
-import { compareTask, pairIndexOf } from '../../simulation/compare';
+import type { CeCurve } from '../../simulation/breakEven';
 import { prepareScenario, type PreparedScenario } from '../../simulation/prepare';
 import { simulateRange, type PairStore } from '../../simulation/project';
+import { runMemberComparison } from '../../simulation/run';
 import type { Scenario } from '../../simulation/schema';
 import { summarisePair } from '../../simulation/summary';
 import type { ComputeJob, SharedStore, WorkerReply } from './protocol';
@@ -51,11 +52,13 @@ port.on('message', (job: ComputeJob) => {
       const summaries = job.stores.map((s) => summarisePair(p, asStore(s), { shared: true }));
       send({ type: 'summarised', jobId: job.jobId, summaries });
     } else {
-      const compared = job.tasks.map((task) => {
-        const a = job.pairs[pairIndexOf(p, task.optionA, task.memberIndex)];
-        const b = job.pairs[pairIndexOf(p, task.optionB, task.memberIndex)];
-        return compareTask(p, task, new Float64Array(a.pots), new Float64Array(b.pots), a.curve, b.curve, a.targetRealPot);
-      });
+      const results: { terminalRealPots: Float64Array; atRetirement: { targetRealPot: number } }[] = [];
+      const curves: CeCurve[] = [];
+      for (const [index, pair] of Object.entries(job.pairs)) {
+        results[Number(index)] = { terminalRealPots: new Float64Array(pair.pots), atRetirement: { targetRealPot: pair.targetRealPot } };
+        curves[Number(index)] = pair.curve;
+      }
+      const compared = job.members.map((m) => runMemberComparison(p, m, results, curves));
       send({ type: 'compared', jobId: job.jobId, compared });
     }
   } catch (error) {

@@ -6,7 +6,8 @@ import { ENGINE_VERSION, ScenarioValidationError, type ScenarioInput } from '../
 import { runScenarioThreaded } from '../compute/threads';
 import { audit } from '../services/audit';
 import type { ScenarioSnapshot } from '../services/scenario';
-import { compareResults, storeVariant, type StoredResult } from './result';
+import { insertPots } from '../services/runPots';
+import { compareResults, potRows, storeVariant, type PotRow, type StoredResult } from './result';
 
 export type HandlerOptions = {
   /** Worker threads per run (default KEELSON_RUN_THREADS, else the machine's parallelism). */
@@ -71,12 +72,14 @@ export async function processRun(db: Db, runId: string, opts: HandlerOptions & {
   };
 
   let stored: StoredResult;
+  const pots: PotRow[] = [];
   try {
     const threads = opts.threads ?? defaultThreads();
     let sampleKind: 'all' | 'quantiles' = 'all';
     const out = [];
     for (let v = 0; v < variants.length; v++) {
       const result = await runScenarioThreaded(variants[v], { threads, onProgress: (f) => report((v + f) / variants.length) });
+      pots.push(...potRows(runId, v === 0 ? 'base' : 'stressed', result));
       const s = storeVariant(result);
       sampleKind = s.sampleKind;
       out.push(s.variant);
@@ -111,6 +114,7 @@ export async function processRun(db: Db, runId: string, opts: HandlerOptions & {
       .where(and(eq(projectionRuns.id, runId), ne(projectionRuns.status, 'done')))
       .returning({ id: projectionRuns.id });
     if (!updated) return 'skipped' as const;
+    await insertPots(tx, pots);
     await audit(tx, null, {
       action: 'run.completed',
       schemeId: run.schemeId,

@@ -17,7 +17,7 @@ export type ComparisonRow = {
   exact: {
     meanReal: number;
     percentilesReal: Record<string, number>;
-    probabilityReachingTarget: number;
+    probabilityReachingTarget: number | null;
     targetRealPot: number;
     expectedShortfallReal: number;
     medianRealIncome: number;
