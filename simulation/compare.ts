@@ -81,7 +81,12 @@ export function optionInfluence(pots: Float64Array, lambda: number, targetRealPo
   if (targetRealPot !== null && targetRealPot > 0) {
     reached = new Uint8Array(n);
     let count = 0;
-    for (let i = 0; i < n; i++) if (pots[i] >= targetRealPot) (reached[i] = 1), count++;
+    for (let i = 0; i < n; i++) {
+      if (pots[i] >= targetRealPot) {
+        reached[i] = 1;
+        count++;
+      }
+    }
     share = count / n;
   }
   return { cePot, ce, median, medianPsi, share, reached };
