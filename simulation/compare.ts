@@ -194,18 +194,20 @@ export interface ComparisonAtLambda {
 /**
  * Certainty equivalents, their returns and standard errors, every paired difference and the
  * ranking at any λ, from every path's real pot — `pots(optionIndex, memberIndex)` — of a run of
- * `prepared` (exact: nothing is re-simulated or sampled).
+ * `prepared` (exact: nothing is re-simulated or sampled); for `members` (default all).
  */
 export function comparisonAtLambda(
   prepared: PreparedScenario,
   pots: (optionIndex: number, memberIndex: number) => Float64Array,
   lambda: number,
+  members: readonly number[] = prepared.scenario.members.map((_, m) => m),
 ): ComparisonAtLambda {
   const { scenario } = prepared;
   const pairs: PairAtLambda[] = [];
   const differences: OptionComparison[] = [];
   const ranking: MemberRanking[] = [];
-  scenario.members.forEach((member, m) => {
+  members.forEach((m) => {
+    const member = scenario.members[m];
     const first = prepared.pairs[pairIndexOf(prepared, 0, m)];
     const target = first.timeline.realFinalSalary * scenario.targetReplacementRatio * prepared.annuityFactor;
     const influence = scenario.options.map((_, o) => optionInfluence(pots(o, m), lambda, target > 0 ? target : null));

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { defineRoute } from '../routing';
-import { getRun, listRuns, MAX_SEED, requestRun, rerun, runChoices } from '../services/runs';
+import { getRun, listRuns, MAX_SEED, requestRun, rerun, runChoices, runComparison } from '../services/runs';
 
 const Uuid = z.string().uuid('is not a valid id');
 const uniqueIds = (what: string) => (ids: string[]) => new Set(ids).size === ids.length || `names the same ${what} twice`;
@@ -41,6 +41,17 @@ export const RunBody = z.strictObject({
 
 const ListQuery = z.object({ limit: z.coerce.number().int().min(1).max(200).default(50) });
 
+/** λ for a comparison: the same range as a run's (γ = 2λ, see simulation/utility.ts). */
+export const ComparisonQuery = z.object({
+  lambda: z
+    .string({ message: 'is required (a number from -5 to 50)' })
+    .trim()
+    .min(1, 'is required (a number from -5 to 50)')
+    .transform(Number)
+    .pipe(z.number('must be a number').min(-5, 'must be at least -5').max(50, 'must be at most 50')),
+  variant: z.enum(['base', 'stressed'], { message: 'must be base or stressed' }).default('base'),
+});
+
 export function runsRouter(ctx: AppContext): Router {
   const r = Router({ mergeParams: true });
   const M = '/schemes/:schemeId';
@@ -62,6 +73,12 @@ export function runsRouter(ctx: AppContext): Router {
   defineRoute(r, M, { method: 'get', path: '/runs/:runId', access: 'runs:read' }, async (req, res) => {
     const runId = Uuid.parse(req.params.runId);
     res.json(await getRun(ctx, req.scheme!.id, runId));
+  });
+
+  defineRoute(r, M, { method: 'get', path: '/runs/:runId/comparison', access: 'runs:read' }, async (req, res) => {
+    const runId = Uuid.parse(req.params.runId);
+    const query = ComparisonQuery.parse(req.query);
+    res.json(await runComparison(ctx, req.scheme!.id, runId, query));
   });
 
   defineRoute(r, M, { method: 'post', path: '/runs/:runId/rerun', access: 'runs:create' }, async (req, res) => {
