@@ -91,3 +91,97 @@ export function percentileOfSelected(a: ArrayLike<number>, rank: number): number
   const x = a[lo];
   return frac === 0 ? x : x + frac * (a[lo + 1] - x);
 }
+
+/**
+ * The percentile (0–100) of n values from the values at the ranks percentileRanks asked for
+ * (`ranks` ascending, `values` in the same order): the same arithmetic as percentileOfSorted.
+ */
+export function percentileFromRanks(n: number, rank: number, ranks: readonly number[], values: ArrayLike<number>): number {
+  if (n === 0) return Number.NaN;
+  const h = ((n - 1) * rank) / 100;
+  const lo = Math.floor(h);
+  const at = (r: number) => values[ranks.indexOf(r)];
+  if (lo >= n - 1) return at(n - 1);
+  const frac = h - lo;
+  const x = at(lo);
+  return frac === 0 ? x : x + frac * (at(lo + 1) - x);
+}
+
+/**
+ * Values at several ranks of non-negative Float32 values without moving them: a two-pass radix
+ * selection on the bit patterns (for floats ≥ +0 the IEEE 754 bits, read as unsigned integers,
+ * order as the values do). Pass 1 counts the values in each bucket of the top 16 bits (sign,
+ * exponent and 7 mantissa bits); the buckets holding the asked ranks follow from the running
+ * counts. Pass 2 copies the values of those buckets aside; each rank is then selected among
+ * its bucket's few values. About two cheap passes instead of a partitioning select per rank.
+ * Falls back to selection on a copy when a value is negative, −0 or NaN.
+ *
+ * `ranks` ascending and distinct; returns the value at each, in that order.
+ */
+export function float32ValuesAtRanks(values: Float32Array, ranks: readonly number[], scratch: RadixScratch = new RadixScratch()): Float64Array {
+  const n = values.length;
+  const out = new Float64Array(ranks.length);
+  const bits = new Uint32Array(values.buffer, values.byteOffset, n);
+  const counts = scratch.counts;
+  let lowest = 0xffff;
+  let highest = 0;
+  for (let i = 0; i < n; i++) {
+    const b = bits[i] >>> 16;
+    counts[b]++;
+    if (b < lowest) lowest = b;
+    if (b > highest) highest = b;
+  }
+  if (highest >= 0x7f80) {
+    // A negative value, −0 or NaN: clear the counts and select on a copy.
+    counts.fill(0, lowest, highest + 1);
+    const copy = values.slice();
+    selectManyInPlace(copy, ranks);
+    ranks.forEach((r, k) => (out[k] = copy[r]));
+    return out;
+  }
+  // Bucket of each rank, and the number of values below that bucket.
+  const bucketOf = new Int32Array(ranks.length);
+  const below = new Int32Array(ranks.length);
+  let k = 0;
+  let seen = 0;
+  for (let b = lowest; b <= highest && k < ranks.length; b++) {
+    const c = counts[b];
+    while (k < ranks.length && ranks[k] < seen + c) {
+      bucketOf[k] = b;
+      below[k] = seen;
+      k++;
+    }
+    seen += c;
+  }
+  // Buffers for the distinct target buckets.
+  const marks = scratch.marks;
+  const targets: number[] = [];
+  for (let j = 0; j < ranks.length; j++) {
+    const b = bucketOf[j];
+    if (marks[b] === 0) {
+      targets.push(b);
+      marks[b] = targets.length;
+    }
+  }
+  const buffers = targets.map((b) => new Float32Array(counts[b]));
+  const filled = new Int32Array(targets.length);
+  for (let i = 0; i < n; i++) {
+    const m = marks[bits[i] >>> 16];
+    if (m !== 0) buffers[m - 1][filled[m - 1]++] = values[i];
+  }
+  for (let j = 0; j < ranks.length; j++) {
+    const buffer = buffers[marks[bucketOf[j]] - 1];
+    const within = ranks[j] - below[j];
+    selectInPlace(buffer, within);
+    out[j] = buffer[within];
+  }
+  counts.fill(0, lowest, highest + 1);
+  for (const b of targets) marks[b] = 0;
+  return out;
+}
+
+/** Reusable tables for float32ValuesAtRanks (one per thread; left cleared after each call). */
+export class RadixScratch {
+  readonly counts = new Int32Array(0x10000);
+  readonly marks = new Int32Array(0x10000);
+}

@@ -3,7 +3,7 @@ import { ceReturn, type BreakEvenResult, type ComparedPair, type OptionCompariso
 import type { Conventions } from './conventions';
 import type { PreparedScenario } from './prepare';
 import type { PairStore } from './project';
-import { percentileOfSelected, percentileRanks, selectManyInPlace } from './select';
+import { float32ValuesAtRanks, percentileFromRanks, percentileOfSelected, percentileRanks, RadixScratch, selectManyInPlace } from './select';
 import { mean, percentileKey, standardErrorOfMean } from './statistics';
 import {
   influenceStandardError,
@@ -110,9 +110,9 @@ export interface PairSummary {
 
 /**
  * Summarise one pair from its store (every path simulated). Percentiles by selection, not
- * sorting (select.ts): per age on a copy of the age's column, at retirement on a copy of the
- * pots. Working memory beyond the store: one Float32 column, two Float64 arrays of `paths`
- * values, and the returned real pots (on a SharedArrayBuffer with `shared`, so other threads
+ * sorting (select.ts): per age by radix selection on the age's column, at retirement by
+ * Floyd–Rivest selection on a copy of the pots. Working memory beyond the store: two Float64
+ * arrays of `paths` values, the radix tables (512 KiB), and the returned real pots (on a SharedArrayBuffer with `shared`, so other threads
  * can read them). The store's arrays are only read.
  */
 export function summarisePair(prepared: PreparedScenario, store: PairStore, options: { shared?: boolean } = {}): PairSummary {
@@ -134,13 +134,12 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
     realBands[key] = [timeline.initialPot];
   }
   if (store.bands !== null) {
-    const column = new Float32Array(paths);
+    const scratch = new RadixScratch();
     for (let y = 0; y < years - 1; y++) {
-      column.set(store.bands.subarray(y * paths, (y + 1) * paths));
-      selectManyInPlace(column, bandRanks);
+      const atRanks = float32ValuesAtRanks(store.bands.subarray(y * paths, (y + 1) * paths), bandRanks, scratch);
       const deflator = timeline.deflators[y + 1];
       ranks.forEach((rank, r) => {
-        const v = percentileOfSelected(column, rank);
+        const v = percentileFromRanks(paths, rank, bandRanks, atRanks);
         nominalBands[keys[r]].push(v);
         realBands[keys[r]].push(v / deflator);
       });

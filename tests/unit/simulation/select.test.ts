@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 
 import { percentileOfSelected, percentileRanks, selectInPlace, selectManyInPlace } from '@/simulation';
+import { float32ValuesAtRanks, percentileFromRanks } from '@/simulation/select';
 import { percentileOfSorted } from '@/simulation/statistics';
 
 describe('selection instead of sorting', () => {
@@ -38,6 +39,28 @@ describe('selection instead of sorting', () => {
         },
       ),
       { numRuns: 200 },
+    );
+  });
+
+  it('radix selection on float32 bit patterns gives the same order statistics and percentiles as a sort', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.oneof(fc.float({ min: 0, max: 1e7, noNaN: true }), fc.constantFrom(0, 1, 2.5, 1e-30, 3e38)), { minLength: 1, maxLength: 4000 }),
+        fc.uniqueArray(fc.double({ min: 0.1, max: 99.9, noNaN: true }), { minLength: 1, maxLength: 9 }),
+        fc.boolean(),
+        (raw, percentiles, negative) => {
+          const values = Float32Array.from(raw.map((v) => (v === 0 ? 0 : v)));
+          if (negative) values[0] = -1; // falls back to selection
+          const sorted = values.slice().sort();
+          const ranks = percentileRanks(values.length, percentiles);
+          const before = values.slice();
+          const at = float32ValuesAtRanks(values, ranks);
+          ranks.forEach((r, k) => expect(at[k]).toBe(sorted[r]));
+          for (const p of percentiles) expect(percentileFromRanks(values.length, p, ranks, at)).toBe(percentileOfSorted(sorted, p));
+          expect(values).toEqual(before); // not moved
+        },
+      ),
+      { numRuns: 150 },
     );
   });
 
