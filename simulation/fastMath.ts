@@ -81,6 +81,9 @@ export function spreadGrowthExact(q: number): number {
   return s / 12;
 }
 
+/** The table behind spreadGrowth, for loops that evaluate it inline (see project.ts). */
+export const SPREAD = { table: SPREAD_TABLE, low: SPREAD_LOW, high: SPREAD_HIGH, cellsPerUnit: SPREAD_CELLS_PER_UNIT } as const;
+
 export function spreadGrowth(q: number): number {
   if (!(q >= SPREAD_LOW && q < SPREAD_HIGH)) return spreadGrowthExact(q);
   const c = SPREAD_TABLE;

@@ -1,4 +1,4 @@
-import { spreadGrowth } from './fastMath';
+import { SPREAD, spreadGrowth, spreadGrowthExact } from './fastMath';
 import { marketFor } from './market';
 import type { PreparedPair, PreparedScenario } from './prepare';
 
@@ -157,20 +157,8 @@ function walk(
       held++;
     }
     if (held <= 3 && y !== stressYear) {
-      if (spread) {
-        for (let j = 0; j < count; j++) {
-          const q = (w0 * gross[r0 + j] + w1 * gross[r1 + j] + w2 * gross[r2 + j]) * charge;
-          const v = pot[j] * q + c * growth(q);
-          pot[j] = v;
-          out[offset + j] = v;
-        }
-      } else {
-        for (let j = 0; j < count; j++) {
-          const v = (pot[j] + c) * (w0 * gross[r0 + j] + w1 * gross[r1 + j] + w2 * gross[r2 + j]) * charge;
-          pot[j] = v;
-          out[offset + j] = v;
-        }
-      }
+      if (spread) yearSpread(gross, r0, r1, r2, w0, w1, w2, charge, c, pot, out, offset, count);
+      else yearStart(gross, r0, r1, r2, w0, w1, w2, charge, c, pot, out, offset, count);
       continue;
     }
     let started = false;
@@ -205,4 +193,66 @@ function walk(
     for (let j = 0; j < count; j++) out[offset + j] = pot[j];
   }
   store.terminal.set(pot.subarray(0, count), first);
+}
+
+/**
+ * One year of the fused walk, contributions spread through the year: pot ← pot·q + C·s(q),
+ * s(q) = spreadGrowth(q) evaluated inline from its table (a call per path would cost more
+ * than the rest of the step).
+ */
+function yearSpread(
+  gross: Float64Array,
+  r0: number,
+  r1: number,
+  r2: number,
+  w0: number,
+  w1: number,
+  w2: number,
+  charge: number,
+  c: number,
+  pot: Float64Array,
+  out: Float32Array,
+  offset: number,
+  count: number,
+): void {
+  const t = SPREAD.table;
+  const low = SPREAD.low;
+  const high = SPREAD.high;
+  const cells = SPREAD.cellsPerUnit;
+  const exact = spreadGrowthExact;
+  for (let j = 0; j < count; j++) {
+    const q = (w0 * gross[r0 + j] + w1 * gross[r1 + j] + w2 * gross[r2 + j]) * charge;
+    let s: number;
+    if (q >= low && q < high) {
+      const o = (((q - low) * cells) | 0) << 3;
+      const d = q - t[o + 7];
+      s = t[o] + d * (t[o + 1] + d * (t[o + 2] + d * (t[o + 3] + d * (t[o + 4] + d * (t[o + 5] + d * t[o + 6])))));
+    } else s = exact(q);
+    const v = pot[j] * q + c * s;
+    pot[j] = v;
+    out[offset + j] = v;
+  }
+}
+
+/** One year of the fused walk, contributions at the start of the year: pot ← (pot + C)·g·(1 − c). */
+function yearStart(
+  gross: Float64Array,
+  r0: number,
+  r1: number,
+  r2: number,
+  w0: number,
+  w1: number,
+  w2: number,
+  charge: number,
+  c: number,
+  pot: Float64Array,
+  out: Float32Array,
+  offset: number,
+  count: number,
+): void {
+  for (let j = 0; j < count; j++) {
+    const v = (pot[j] + c) * (w0 * gross[r0 + j] + w1 * gross[r1 + j] + w2 * gross[r2 + j]) * charge;
+    pot[j] = v;
+    out[offset + j] = v;
+  }
 }

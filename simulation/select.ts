@@ -118,7 +118,7 @@ export function percentileFromRanks(n: number, rank: number, ranks: readonly num
  *
  * `ranks` ascending and distinct; returns the value at each, in that order.
  */
-export function float32ValuesAtRanks(values: Float32Array, ranks: readonly number[], scratch: RadixScratch = new RadixScratch()): Float64Array {
+export function float32ValuesAtRanks(values: Float32Array, ranks: readonly number[], scratch: RadixScratch = RadixScratch.shared()): Float64Array {
   const n = values.length;
   const out = new Float64Array(ranks.length);
   const bits = new Uint32Array(values.buffer, values.byteOffset, n);
@@ -180,8 +180,14 @@ export function float32ValuesAtRanks(values: Float32Array, ranks: readonly numbe
   return out;
 }
 
-/** Reusable tables for float32ValuesAtRanks (one per thread; left cleared after each call). */
+/** Reusable tables for float32ValuesAtRanks (512 KiB; left cleared after each call). */
 export class RadixScratch {
   readonly counts = new Int32Array(0x10000);
   readonly marks = new Int32Array(0x10000);
+  private static instance: RadixScratch | null = null;
+  /** One set per thread (JavaScript runs one call at a time on a thread), made on first use. */
+  static shared(): RadixScratch {
+    RadixScratch.instance ??= new RadixScratch();
+    return RadixScratch.instance;
+  }
 }

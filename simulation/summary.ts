@@ -13,7 +13,7 @@ import {
   sparsityLevels,
   tailMeanInfluence,
 } from './uncertainty';
-import { certaintyEquivalentPot, logPots } from './utility';
+import { logCertaintyEquivalent, logPots } from './utility';
 import { ENGINE_VERSION } from './version';
 
 /** Percentile values keyed "p5", "p50", … */
@@ -134,7 +134,7 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
     realBands[key] = [timeline.initialPot];
   }
   if (store.bands !== null) {
-    const scratch = new RadixScratch();
+    const scratch = RadixScratch.shared();
     for (let y = 0; y < years - 1; y++) {
       const atRanks = float32ValuesAtRanks(store.bands.subarray(y * paths, (y + 1) * paths), bandRanks, scratch);
       const deflator = timeline.deflators[y + 1];
@@ -191,7 +191,7 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
   const logs = logPots(terminalRealPots);
   const psi = new Float64Array(paths);
   logCeInfluence(logs, lambda, psi);
-  const cePot = certaintyEquivalentPot(terminalRealPots, lambda);
+  const cePot = Math.exp(logCertaintyEquivalent(logs, lambda)); // = certaintyEquivalentPot(terminalRealPots, λ)
   const ceSe = influenceStandardError(psi, antithetic);
 
   // Standard errors of the figures at retirement (real money), antithetic-aware.

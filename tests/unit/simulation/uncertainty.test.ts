@@ -150,9 +150,9 @@ describe('break-even λ', () => {
     expect(found.status).toBe('found');
     expect(found.crossings.map((c) => c.favouredAbove)).toEqual(['B', 'A']);
     const [first, second] = found.crossings.map((c) => c.lambda);
-    // Both inside one cell of the scan grid (1 to 1.25) and of engine 1's grid (1 to 1.5).
+    // Both inside one cell of the scan grid and of engine 1's grid (1 to 1.5), 0.08 apart.
     expect(SCAN_GRID).toContain(1);
-    expect(SCAN_GRID).toContain(1.25);
+    expect(SCAN_GRID[SCAN_GRID.indexOf(1) + 1]).toBe(1.5);
     expect(first).toBeGreaterThan(1);
     expect(second).toBeLessThan(1.25);
     expect(second - first).toBeGreaterThan(0.05);
