@@ -101,7 +101,17 @@ export {
   type PreparedPair,
   type PreparedScenario,
 } from './prepare';
-export { BLOCK_PATHS, createPairStores, simulateRange, type PairStore, type SimulateOptions, type StoreOptions } from './project';
+export {
+  BLOCK_PATHS,
+  createPairStores,
+  createWalkScratch,
+  simulateRange,
+  walkPair,
+  type PairStore,
+  type SimulateOptions,
+  type StoreOptions,
+  type WalkScratch,
+} from './project';
 export {
   SHORTFALL_LEVEL,
   assembleResult,

@@ -1,6 +1,6 @@
 import { SPREAD, spreadGrowth, spreadGrowthExact } from './fastMath';
 import { marketFor } from './market';
-import type { PreparedPair, PreparedScenario } from './prepare';
+import type { PreparedScenario } from './prepare';
 
 /**
  * The path loop: market once, members many.
@@ -69,18 +69,14 @@ export function simulateRange(prepared: PreparedScenario, start: number, end: nu
   const F = prepared.fundCount;
   const B = BLOCK_PATHS;
   const gross = new Float64Array(prepared.maxYears * F * B);
-  const scratch: WalkScratch = { pot: new Float64Array(B), acc: new Float64Array(B), sink: new Float32Array(B) };
+  const scratch = createWalkScratch();
   const market = marketFor(prepared);
-  const formatOne = prepared.scenario.version === 1;
-  const spread = prepared.scenario.timing.contributions === 'spread';
   const total = Math.max(0, end - start);
   let sinceReport = 0;
   for (let first = start; first < end; first += B) {
     const count = Math.min(B, end - first);
     market.fill(first, count, gross, B);
-    for (const store of stores) {
-      walk(prepared.pairs[store.pairIndex], prepared, gross, B, first, count, scratch, store, formatOne, spread);
-    }
+    for (const store of stores) walkPair(prepared, store, gross, first, count, scratch);
     sinceReport += count;
     if (options.onProgress && sinceReport >= 1024) {
       sinceReport = 0;
@@ -91,30 +87,28 @@ export function simulateRange(prepared: PreparedScenario, start: number, end: nu
 }
 
 /** Scratch shared by the walks of one range. */
-interface WalkScratch {
+export interface WalkScratch {
   pot: Float64Array;
   acc: Float64Array;
   /** Receives the "band" of the final year, which is not kept (saves a branch per path). */
   sink: Float32Array;
 }
 
+export function createWalkScratch(): WalkScratch {
+  return { pot: new Float64Array(BLOCK_PATHS), acc: new Float64Array(BLOCK_PATHS), sink: new Float32Array(BLOCK_PATHS) };
+}
+
 /**
- * One pair over one block of market paths (see the module comment). Years with at most three
- * funds held are walked in one fused pass (unused terms get weight 0 on the first fund's row,
- * which adds exactly 0); others, and format 1's stress year, in one pass per fund.
+ * One pair over one block of market paths [first, first + count) laid out as the market step
+ * writes them (blocks of BLOCK_PATHS; see the module comment), into the pair's store. Years
+ * with at most three funds held are walked in one fused pass (unused terms get weight 0 on the
+ * first fund's row, which adds exactly 0); others, and format 1's stress year, one pass per fund.
  */
-function walk(
-  pair: PreparedPair,
-  prepared: PreparedScenario,
-  gross: Float64Array,
-  B: number,
-  first: number,
-  count: number,
-  scratch: WalkScratch,
-  store: PairStore,
-  formatOne: boolean,
-  spread: boolean,
-): void {
+export function walkPair(prepared: PreparedScenario, store: PairStore, gross: Float64Array, first: number, count: number, scratch: WalkScratch): void {
+  const B = BLOCK_PATHS;
+  const pair = prepared.pairs[store.pairIndex];
+  const formatOne = prepared.scenario.version === 1;
+  const spread = prepared.scenario.timing.contributions === 'spread';
   const F = prepared.fundCount;
   const n = pair.years;
   const w = pair.weights;
@@ -224,9 +218,11 @@ function yearSpread(
     const q = (w0 * gross[r0 + j] + w1 * gross[r1 + j] + w2 * gross[r2 + j]) * charge;
     let s: number;
     if (q >= low && q < high) {
-      const o = (((q - low) * cells) | 0) << 3;
-      const d = q - t[o + 7];
-      s = t[o] + d * (t[o + 1] + d * (t[o + 2] + d * (t[o + 3] + d * (t[o + 4] + d * (t[o + 5] + d * t[o + 6])))));
+      const u = (q - low) * cells;
+      const cell = u | 0;
+      const d = u - cell - 0.5;
+      const o = cell << 2;
+      s = t[o] + t[o + 1] * d + d * d * (t[o + 2] + t[o + 3] * d);
     } else s = exact(q);
     const v = pot[j] * q + c * s;
     pot[j] = v;

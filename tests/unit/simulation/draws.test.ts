@@ -114,14 +114,15 @@ describe('format-2 random numbers', () => {
     expect(fastExp(800)).toBe(Infinity);
   });
 
-  it('spreadGrowth is (1/12) Σ q^(k/12), and equals i / i⁽¹²⁾ (monthly accumulation factor) to 1e-14', () => {
-    for (let q = 0.05; q < 6; q += 0.00731) {
+  it('spreadGrowth is (1/12) Σ q^(k/12) to 1e-11 (table) and 1e-14 (exact), and equals i / i⁽¹²⁾', () => {
+    for (let q = 0.05; q < 6; q += 0.000731) {
       const direct = Array.from({ length: 12 }, (_, k) => q ** (k / 12)).reduce((a, b) => a + b, 0) / 12;
-      expect(Math.abs(spreadGrowth(q) / direct - 1), `q = ${q}`).toBeLessThan(1e-14);
+      expect(Math.abs(spreadGrowth(q) / direct - 1), `q = ${q}`).toBeLessThan(1e-11);
       expect(Math.abs(spreadGrowthExact(q) / direct - 1)).toBeLessThan(1e-14);
-      // i/i⁽¹²⁾ with i⁽¹²⁾ = 12((1 + i)^(1/12) − 1): the standard actuarial relation (from memory).
+      // i/i⁽¹²⁾ with i⁽¹²⁾ = 12((1 + i)^(1/12) − 1): the standard actuarial relation (from memory);
+      // near q = 1 the closed form itself loses digits to cancellation, hence 1e-10.
       const i = q - 1;
-      if (Math.abs(i) > 1e-3) expect(Math.abs(spreadGrowth(q) / (i / (12 * (q ** (1 / 12) - 1))) - 1)).toBeLessThan(1e-12);
+      if (Math.abs(i) > 1e-3) expect(Math.abs(spreadGrowthExact(q) / (i / (12 * (q ** (1 / 12) - 1))) - 1)).toBeLessThan(1e-10);
     }
   });
 });
