@@ -200,14 +200,37 @@ export interface Crossings {
 }
 
 /**
+ * A first guess at the root in [a, b] from the cubic Hermite interpolant of f and f′ at both
+ * ends (scan values): a few bisections of the cubic, then the secant if that fails.
+ */
+function hermiteRoot(a: number, b: number, fa: number, fb: number, sa: number, sb: number): number {
+  const h = b - a;
+  const cubic = (x: number) => {
+    const t = (x - a) / h;
+    const t2 = t * t;
+    const t3 = t2 * t;
+    return (2 * t3 - 3 * t2 + 1) * fa + (t3 - 2 * t2 + t) * h * sa + (-2 * t3 + 3 * t2) * fb + (t3 - t2) * h * sb;
+  };
+  let lo = a;
+  let hi = b;
+  for (let k = 0; k < 40; k++) {
+    const mid = (lo + hi) / 2;
+    if (cubic(mid) * fa > 0) lo = mid;
+    else hi = mid;
+  }
+  const x = (lo + hi) / 2;
+  return x > a && x < b ? x : a - (fa * (b - a)) / (fb - fa);
+}
+
+/**
  * The root of f in [a, b] (f(a), f(b) of opposite signs) by Newton steps with the exact slope,
  * bisecting whenever a step would leave the bracket; to 1e-10 in λ. Usually 3–4 evaluations.
  */
-function newtonInBracket(exact: (l: number) => { f: number; slope: number }, a: number, b: number, fa: number, fb: number): number {
+function newtonInBracket(exact: (l: number) => { f: number; slope: number }, a: number, b: number, fa: number, fb: number, sa?: number, sb?: number): number {
   let lo = a;
   let hi = b;
   const rising = fb > fa;
-  let x = a - (fa * (b - a)) / (fb - fa);
+  let x = sa !== undefined && sb !== undefined ? hermiteRoot(a, b, fa, fb, sa, sb) : a - (fa * (b - a)) / (fb - fa);
   for (let k = 0; k < 100; k++) {
     const { f, slope } = exact(x);
     if (f === 0) return x;
@@ -255,7 +278,7 @@ export function findCrossings(
     if (a < low || b > high || !Number.isFinite(f[k]) || !Number.isFinite(f[k + 1])) continue;
     if (f[k] === 0) found.push(a);
     else if (f[k + 1] === 0) found.push(b);
-    else if (f[k] * f[k + 1] < 0) found.push(newtonInBracket(exact, a, b, f[k], f[k + 1]));
+    else if (f[k] * f[k + 1] < 0) found.push(newtonInBracket(exact, a, b, f[k], f[k + 1], fp[k], fp[k + 1]));
     else if (fp[k] * fp[k + 1] < 0 && f[k] * fp[k] < 0) {
       // f moves towards zero and turns back inside the cell: look at the turning point.
       const slope = (l: number) => exact(l).slope;

@@ -10,7 +10,7 @@ import {
   sparsityLevels,
   type Difference,
 } from './uncertainty';
-import { breakEvenLambda, ceAnnualReturn, ceRealReturn, certaintyEquivalentPot, logPots, type BreakEven } from './utility';
+import { breakEvenLambda, ceAnnualReturn, ceRealReturn, logPots, type BreakEven } from './utility';
 
 /**
  * Options compared for one member on the same paths (paired: common random numbers make the
@@ -67,8 +67,7 @@ export interface OptionInfluence {
 export function optionInfluence(pots: Float64Array, lambda: number, targetRealPot: number | null, logs: Float64Array = logPots(pots)): OptionInfluence {
   const n = pots.length;
   const ce = new Float64Array(n);
-  logCeInfluence(logs, lambda, ce);
-  const cePot = certaintyEquivalentPot(pots, lambda);
+  const cePot = Math.exp(logCeInfluence(logs, lambda, ce)); // = certaintyEquivalentPot(pots, λ)
   for (let i = 0; i < n; i++) ce[i] *= cePot;
   const medianPsi = new Float64Array(n);
   const levels = sparsityLevels(0.5, n);

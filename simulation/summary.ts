@@ -13,7 +13,7 @@ import {
   sparsityLevels,
   tailMeanInfluence,
 } from './uncertainty';
-import { logCertaintyEquivalent, logPots } from './utility';
+import { logPots } from './utility';
 import { ENGINE_VERSION } from './version';
 
 /** Percentile values keyed "p5", "p50", … */
@@ -190,8 +190,7 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
   const lambda = scenario.riskAversion;
   const logs = logPots(terminalRealPots);
   const psi = new Float64Array(paths);
-  logCeInfluence(logs, lambda, psi);
-  const cePot = Math.exp(logCertaintyEquivalent(logs, lambda)); // = certaintyEquivalentPot(terminalRealPots, λ)
+  const cePot = Math.exp(logCeInfluence(logs, lambda, psi)); // = certaintyEquivalentPot(terminalRealPots, λ)
   const ceSe = influenceStandardError(psi, antithetic);
 
   // Standard errors of the figures at retirement (real money), antithetic-aware.

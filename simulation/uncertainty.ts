@@ -71,12 +71,12 @@ export function shareInfluence(values: ArrayLike<number>, t: number, out: Float6
   for (let i = 0; i < values.length; i++) out[i] = (values[i] >= t ? 1 : 0) - share;
 }
 
-/** Below this |e| = |1 − 2λ| the log-utility form of the ln CE influence is used. */
-const LOG_UTILITY_BAND = 1e-6;
+/** Below this |e| = |1 − 2λ| the log-utility form is used (as logCertaintyEquivalent does). */
+const LOG_UTILITY_BAND = 1e-9;
 
 /**
- * Influence values of ln CE at λ from log pots, into `out`; returns ln CE (−∞ when a pot is
- * zero and γ > 1; then `out` is NaN).
+ * Influence values of ln CE at λ from log pots, into `out`; returns ln CE, computed exactly as
+ * logCertaintyEquivalent does (−∞ when a pot is zero and γ > 1; then `out` is NaN).
  */
 export function logCeInfluence(logs: Float64Array, lambda: number, out: Float64Array): number {
   const n = logs.length;
