@@ -102,7 +102,9 @@ export interface ProjectionResult {
   comparisons: OptionComparison[];
 }
 
-/** What summarising one pair gives: its result, and its CE curve for the break-even scan. */
+const EMPTY_CURVE: CeCurve = { logCe: new Float64Array(0), slope: new Float64Array(0) };
+
+/** What summarising one pair gives: its result, and its CE curve for the break-even scan (empty with one option). */
 export interface PairSummary {
   result: PairResult;
   curve: CeCurve;
@@ -235,7 +237,8 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
     },
     terminalRealPots,
   };
-  return { result, curve: ceCurve(logs) };
+  // The CE curve only serves break-even searches between options.
+  return { result, curve: scenario.options.length > 1 ? ceCurve(logs) : EMPTY_CURVE };
 }
 
 /**
