@@ -228,6 +228,11 @@ function crossFieldIssues(raw: Record<string, unknown>): ValidationIssue[] {
   if (fundsKnown && isRecord(raw.stress) && typeof raw.stress.fundId === 'string' && !fundIds.includes(raw.stress.fundId)) {
     issues.push({ path: 'stress.fundId', message: `unknown fund id "${raw.stress.fundId}"` });
   }
+  if (raw.version !== 2) {
+    for (const field of ['timing', 'contributionBasis']) {
+      if (field in raw) issues.push({ path: field, message: 'is a scenario format 2 field: add "version": 2' });
+    }
+  }
   if (raw.antithetic === true && typeof raw.paths === 'number' && raw.paths % 2 !== 0) {
     issues.push({ path: 'paths', message: 'must be even when antithetic is true (paths come in pairs)' });
   }

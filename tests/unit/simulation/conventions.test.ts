@@ -92,6 +92,8 @@ describe('contribution basis', () => {
       expect(paths).toContain('timing.glideWeights');
       expect(paths.some((p) => p.startsWith('contributionBasis'))).toBe(true);
     }
+    const formatOne = validateScenario({ ...baseScenario(), timing: { contributions: 'spread' } });
+    expect(formatOne).toEqual({ ok: false, issues: [{ path: 'timing', message: 'is a scenario format 2 field: add "version": 2' }] });
     const version = validateScenario({ ...baseScenario(), version: 3 });
     expect(version).toEqual({ ok: false, issues: [{ path: 'version', message: 'must be 1 or 2 (got 3)' }] });
   });
