@@ -184,7 +184,7 @@ function yearsInnermost(prepared: PreparedScenario, paths: number, gross: Float6
 async function main(): Promise<void> {
   const cores = availableParallelism();
   console.log(`Keelson projection benchmark — Node ${process.version}, ${cores} cores, load average ${loadavg().map((l) => l.toFixed(1)).join(' ')}`);
-  console.log('Figures are the best of several runs, wall clock and CPU time; on a shared machine they are noisy (CPU time is steadier).');
+  console.log('Figures are the best of several runs, wall clock and CPU time; on a shared machine they are noisy (CPU time is steadier) — rerun on a quiet machine for the targets.');
   console.log('Case: 100,000 paths × 40 years × 3 correlated funds, scenario format 2 (mid-year weights, spread contributions).');
   const reference = numpyReference();
   console.log(reference ? `numpy reference: numpy ${reference.numpy}, one thread (scripts/bench_reference.py)` : 'numpy reference: python3 with numpy not found — skipped');
@@ -242,7 +242,7 @@ async function main(): Promise<void> {
   const full = rate(PATH_YEARS, fullTime.wallMs);
   console.log(`\n3. full run (bands at every age, percentiles, CE, standard errors, CE curve), one thread: ${ms(fullTime)} = ${m(full)} path-years/s`);
   console.log(
-    `   engine 1.0.0: ${ENGINE_ONE.fullRun.join('–')} M path-years/s → ${(full / 1e6 / ENGINE_ONE.fullRun[1]).toFixed(1)}–${(full / 1e6 / ENGINE_ONE.fullRun[0]).toFixed(1)}× (target ≥ 3×); CPU-time rate ${m(rate(PATH_YEARS, fullTime.cpuMs))}`,
+    `   engine 1.0.0 (recorded when issue 16 was filed, machine not loaded): ${ENGINE_ONE.fullRun.join('–')} M path-years/s → ${(full / 1e6 / ENGINE_ONE.fullRun[1]).toFixed(1)}–${(full / 1e6 / ENGINE_ONE.fullRun[0]).toFixed(1)}× by wall clock, ${(rate(PATH_YEARS, fullTime.cpuMs) / 1e6 / ENGINE_ONE.fullRun[1]).toFixed(1)}–${(rate(PATH_YEARS, fullTime.cpuMs) / 1e6 / ENGINE_ONE.fullRun[0]).toFixed(1)}× by CPU time (target ≥ 3×)`,
   );
   const phases = phaseTimes(single);
   console.log(`   phases (CPU): simulate ${phases.simulate.toFixed(0)} ms, summarise ${phases.summarise.toFixed(0)} ms, compare ${phases.compare.toFixed(0)} ms`);
@@ -273,6 +273,9 @@ async function main(): Promise<void> {
   console.log(`\n5. two worker threads (warm pool; all phases in the workers), full run of 3: ${twoThreads.toFixed(0)} ms vs ${oneThread.toFixed(0)} ms on one thread = ${(oneThread / twoThreads).toFixed(2)}× (target ≥ 1.8×)`);
   console.log(`   phases: simulate ${timing.simulateMs.toFixed(0)} ms, summarise ${timing.summariseMs.toFixed(0)} ms, compare ${timing.compareMs.toFixed(0)} ms; comparison of 4 on two threads: ${compTwo.toFixed(0)} ms`);
   if (cores < 2) console.log('   (this machine has one core: no speed-up possible)');
+  else if (loadavg()[0] > cores - 0.5) {
+    console.log(`   (load average ${loadavg()[0].toFixed(1)} on ${cores} cores: other processes hold the cores, so a second thread cannot show its speed-up now)`);
+  }
 
   // 6. Memory.
   const perPair = bandBytes(prepared.pairs[0], 100000) + 8 * 100000;

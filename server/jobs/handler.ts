@@ -79,7 +79,7 @@ export async function processRun(db: Db, runId: string, opts: HandlerOptions & {
     const out = [];
     for (let v = 0; v < variants.length; v++) {
       const result = await runScenarioThreaded(variants[v], { threads, onProgress: (f) => report((v + f) / variants.length) });
-      pots.push(...potRows(runId, v === 0 ? 'base' : 'stressed', result));
+      pots.push(...(await potRows(runId, v === 0 ? 'base' : 'stressed', result)));
       const s = storeVariant(result);
       sampleKind = s.sampleKind;
       out.push(s.variant);

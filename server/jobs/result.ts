@@ -1,5 +1,6 @@
 import { endianness } from 'node:os';
-import { deflateRawSync, inflateRawSync } from 'node:zlib';
+import { promisify } from 'node:util';
+import { deflateRaw, inflateRawSync } from 'node:zlib';
 import type { PairResult, ProjectionResult } from '../../simulation';
 import { percentileOfSorted } from '../../simulation/statistics';
 
@@ -166,14 +167,17 @@ export const POT_ENCODING = 'f64le-planes-deflate';
  * eight planes — every value's first byte, then every second byte, … — so the slowly varying
  * sign/exponent bytes sit together, then deflated. About 84 % of the raw 8 bytes a pot.
  */
-export function encodePots(pots: Float64Array): Buffer {
+export function encodePots(pots: Float64Array): Promise<Buffer> {
   if (endianness() !== 'LE') throw new Error('pot storage assumes a little-endian machine');
   const bytes = new Uint8Array(pots.buffer, pots.byteOffset, pots.byteLength);
   const n = pots.length;
   const planes = Buffer.allocUnsafe(8 * n);
   for (let i = 0; i < n; i++) for (let k = 0; k < 8; k++) planes[k * n + i] = bytes[8 * i + k];
-  return deflateRawSync(planes, { level: 6 });
+  // Compressed on libuv's thread pool, not on the event loop.
+  return deflateRawAsync(planes, { level: 6 });
 }
+
+const deflateRawAsync = promisify(deflateRaw);
 
 /** The inverse of encodePots. */
 export function decodePots(data: Buffer, paths: number, encoding = POT_ENCODING): Float64Array {
@@ -190,14 +194,16 @@ export function decodePots(data: Buffer, paths: number, encoding = POT_ENCODING)
 export type PotRow = { runId: string; variant: 'base' | 'stressed'; optionId: string; memberId: string; paths: number; encoding: string; data: Buffer };
 
 /** The pot rows of one variant of a run's engine result. */
-export function potRows(runId: string, variant: 'base' | 'stressed', result: ProjectionResult): PotRow[] {
-  return result.results.map((pair) => ({
-    runId,
-    variant,
-    optionId: pair.optionId,
-    memberId: pair.memberId,
-    paths: pair.terminalRealPots.length,
-    encoding: POT_ENCODING,
-    data: encodePots(pair.terminalRealPots),
-  }));
+export function potRows(runId: string, variant: 'base' | 'stressed', result: ProjectionResult): Promise<PotRow[]> {
+  return Promise.all(
+    result.results.map(async (pair) => ({
+      runId,
+      variant,
+      optionId: pair.optionId,
+      memberId: pair.memberId,
+      paths: pair.terminalRealPots.length,
+      encoding: POT_ENCODING,
+      data: await encodePots(pair.terminalRealPots),
+    })),
+  );
 }

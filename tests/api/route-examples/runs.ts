@@ -93,7 +93,7 @@ export const examples: Examples = {
   'GET /schemes/:schemeId/runs/:runId/comparison': async (fx) => {
     // A finished run with its pots stored, as the worker stores them.
     const { run, input } = await insertFinishedRun(fx.db, fx.schemeId, { paths: 100, tag: fx.nonce });
-    await insertPots(fx.db, potRows(run.id, 'base', runScenario(input.scenario)));
+    await insertPots(fx.db, await potRows(run.id, 'base', runScenario(input.scenario)));
     return { params: { schemeId: fx.schemeId, runId: run.id }, query: { lambda: '5' } };
   },
 };
