@@ -14,8 +14,9 @@ import { BREAK_EVEN_RANGE } from './utility';
  * 2. Bracket. With f = ln CE_A − ln CE_B: a sign change of f between grid points brackets one
  *    crossing; where f keeps its sign but its slope changes sign, the extremum is found (root
  *    of f′) and, if f changes sign there, the cell holds two crossings.
- * 3. Refine each bracket to 1e-10 by Newton steps on f and f′ computed exactly from every path
- *    (not from the grid), kept inside the bracket (a bisection when a step would leave it).
+ * 3. Refine each bracket by Newton steps on f and f′ computed exactly from every path (not from
+ *    the grid), from the cubic through the scan's values and slopes, kept inside the bracket (a
+ *    bisection when a step would leave it), until a step is below 1e-6 (error of order 1e-12).
  * 4. Standard error of each crossing by the delta method: λ* solves f(λ) = 0, so
  *    SE(λ*) ≈ SE(f̂(λ*)) / |f′(λ*)|, SE(f̂) from the paired influence values of ln CE_A − ln CE_B
  *    (uncertainty.ts), antithetic-aware; the interval is λ* ± 1.96 SE.
@@ -226,22 +227,34 @@ function hermiteRoot(a: number, b: number, fa: number, fb: number, sa: number, s
  * The root of f in [a, b] (f(a), f(b) of opposite signs) by Newton steps with the exact slope,
  * bisecting whenever a step would leave the bracket; to 1e-10 in λ. Usually 3–4 evaluations.
  */
-function newtonInBracket(exact: (l: number) => { f: number; slope: number }, a: number, b: number, fa: number, fb: number, sa?: number, sb?: number): number {
+function newtonInBracket(
+  exact: (l: number) => { f: number; slope: number },
+  a: number,
+  b: number,
+  fa: number,
+  fb: number,
+  sa?: number,
+  sb?: number,
+): { lambda: number; slope: number } {
   let lo = a;
   let hi = b;
   const rising = fb > fa;
   let x = sa !== undefined && sb !== undefined ? hermiteRoot(a, b, fa, fb, sa, sb) : a - (fa * (b - a)) / (fb - fa);
+  let last = { f: Number.NaN, slope: Number.NaN };
   for (let k = 0; k < 100; k++) {
-    const { f, slope } = exact(x);
-    if (f === 0) return x;
+    last = exact(x);
+    const { f, slope } = last;
+    if (f === 0) return { lambda: x, slope };
     if (f > 0 === rising) hi = x;
     else lo = x;
-    let next = x - f / slope;
-    if (!(next > lo && next < hi)) next = (lo + hi) / 2;
-    if (Math.abs(next - x) < 1e-10 || hi - lo < 1e-10) return next;
+    const newton = x - f / slope;
+    const inside = newton > lo && newton < hi;
+    const next = inside ? newton : (lo + hi) / 2;
+    // Newton converges quadratically: after a step below 1e-6 the error is of order 1e-12.
+    if ((inside && Math.abs(next - x) < 1e-6) || hi - lo < 1e-10) return { lambda: next, slope };
     x = next;
   }
-  return x;
+  return { lambda: x, slope: last.slope };
 }
 
 /** Every crossing of options A and B in [−5, 50] (see the module comment). */
@@ -270,14 +283,14 @@ export function findCrossings(
     return { f: a.value === b.value ? 0 : a.value - b.value, slope: a.slope - b.slope };
   };
   const F = (lambda: number) => exact(lambda).f;
-  const found: number[] = [];
+  const found: { lambda: number; slope: number }[] = [];
   const [low, high] = BREAK_EVEN_RANGE;
   for (let k = 0; k + 1 < G; k++) {
     const a = SCAN_GRID[k];
     const b = SCAN_GRID[k + 1];
     if (a < low || b > high || !Number.isFinite(f[k]) || !Number.isFinite(f[k + 1])) continue;
-    if (f[k] === 0) found.push(a);
-    else if (f[k + 1] === 0) found.push(b);
+    if (f[k] === 0) found.push({ lambda: a, slope: fp[k] });
+    else if (f[k + 1] === 0) found.push({ lambda: b, slope: fp[k + 1] });
     else if (f[k] * f[k + 1] < 0) found.push(newtonInBracket(exact, a, b, f[k], f[k + 1], fp[k], fp[k + 1]));
     else if (fp[k] * fp[k + 1] < 0 && f[k] * fp[k] < 0) {
       // f moves towards zero and turns back inside the cell: look at the turning point.
@@ -285,20 +298,19 @@ export function findCrossings(
       if (slope(a) * slope(b) >= 0) continue;
       const turn = findRoot(slope, a, b, 1e-10);
       const atTurn = F(turn);
-      if (atTurn === 0) found.push(turn);
+      if (atTurn === 0) found.push({ lambda: turn, slope: 0 });
       else if (atTurn * f[k] < 0) found.push(newtonInBracket(exact, a, turn, f[k], atTurn), newtonInBracket(exact, turn, b, atTurn, f[k + 1]));
     }
   }
-  const roots = found.sort((x, y) => x - y).filter((x, i, all) => i === 0 || x - all[i - 1] > 1e-8);
+  const roots = found.sort((x, y) => x.lambda - y.lambda).filter((x, i, all) => i === 0 || x.lambda - all[i - 1].lambda > 1e-8);
   if (roots.length === 0) return { status: 'none-in-range', crossings: [] };
   const psiA = new Float64Array(logsA.length);
   const psiB = new Float64Array(logsB.length);
-  const crossings = roots.map((lambda): Crossing => {
+  const crossings = roots.map(({ lambda, slope }): Crossing => {
     logCeInfluence(logsA, lambda, psiA);
     logCeInfluence(logsB, lambda, psiB);
     for (let i = 0; i < psiA.length; i++) psiA[i] -= psiB[i];
     const seF = influenceStandardError(psiA, antithetic);
-    const slope = exact(lambda).slope;
     const se = seF !== null && slope !== 0 && Number.isFinite(slope) ? seF / Math.abs(slope) : null;
     let favouredAbove: 'A' | 'B' = slope > 0 ? 'A' : 'B';
     if (slope === 0) favouredAbove = F(lambda + 1e-6) > 0 ? 'A' : 'B';
