@@ -120,7 +120,8 @@ export function percentileFromRanks(n: number, rank: number, ranks: readonly num
  */
 export function float32ValuesAtRanks(values: Float32Array, ranks: readonly number[], scratch: RadixScratch = RadixScratch.shared()): Float64Array {
   const n = values.length;
-  const out = new Float64Array(ranks.length);
+  const R = ranks.length;
+  const out = new Float64Array(R);
   const bits = new Uint32Array(values.buffer, values.byteOffset, n);
   const counts = scratch.counts;
   let lowest = 0xffff;
@@ -136,58 +137,69 @@ export function float32ValuesAtRanks(values: Float32Array, ranks: readonly numbe
     counts.fill(0, lowest, highest + 1);
     const copy = values.slice();
     selectManyInPlace(copy, ranks);
-    ranks.forEach((r, k) => (out[k] = copy[r]));
+    for (let k = 0; k < R; k++) out[k] = copy[ranks[k]];
     return out;
   }
-  // Bucket of each rank, and the number of values below that bucket.
-  const bucketOf = new Int32Array(ranks.length);
-  const below = new Int32Array(ranks.length);
+  // Bucket of each rank and the number of values below it; each target bucket gets a segment
+  // of the scratch buffer (marks[b] = 1 + its start), in bucket order.
+  const marks = scratch.marks;
+  const bucketOf = new Int32Array(R);
+  const below = new Int32Array(R);
   let k = 0;
   let seen = 0;
-  for (let b = lowest; b <= highest && k < ranks.length; b++) {
+  let used = 0;
+  for (let b = lowest; b <= highest && k < R; b++) {
     const c = counts[b];
-    while (k < ranks.length && ranks[k] < seen + c) {
+    while (k < R && ranks[k] < seen + c) {
       bucketOf[k] = b;
       below[k] = seen;
+      if (marks[b] === 0) {
+        marks[b] = used + 1;
+        used += c;
+      }
       k++;
     }
     seen += c;
   }
-  // Buffers for the distinct target buckets.
-  const marks = scratch.marks;
-  const targets: number[] = [];
-  for (let j = 0; j < ranks.length; j++) {
-    const b = bucketOf[j];
-    if (marks[b] === 0) {
-      targets.push(b);
-      marks[b] = targets.length;
-    }
-  }
-  const buffers = targets.map((b) => new Float32Array(counts[b]));
-  const filled = new Int32Array(targets.length);
+  const buffer = scratch.buffer(used);
+  const fill = scratch.fill(lowest, highest);
   for (let i = 0; i < n; i++) {
-    const m = marks[bits[i] >>> 16];
-    if (m !== 0) buffers[m - 1][filled[m - 1]++] = values[i];
+    const b = bits[i] >>> 16;
+    const m = marks[b];
+    if (m !== 0) buffer[m - 1 + fill[b - lowest]++] = values[i];
   }
-  for (let j = 0; j < ranks.length; j++) {
-    const buffer = buffers[marks[bucketOf[j]] - 1];
-    const within = ranks[j] - below[j];
-    selectInPlace(buffer, within);
-    out[j] = buffer[within];
+  for (let j = 0; j < R; j++) {
+    const start = marks[bucketOf[j]] - 1;
+    const at = start + ranks[j] - below[j];
+    selectInPlace(buffer, at, start, start + counts[bucketOf[j]] - 1);
+    out[j] = buffer[at];
   }
+  for (let j = 0; j < R; j++) marks[bucketOf[j]] = 0;
   counts.fill(0, lowest, highest + 1);
-  for (const b of targets) marks[b] = 0;
   return out;
 }
 
-/** Reusable tables for float32ValuesAtRanks (512 KiB; left cleared after each call). */
+/** Reusable tables for float32ValuesAtRanks (about 640 KiB; left cleared after each call). */
 export class RadixScratch {
   readonly counts = new Int32Array(0x10000);
   readonly marks = new Int32Array(0x10000);
+  private values = new Float32Array(1024);
+  private filled = new Int32Array(0x10000);
   private static instance: RadixScratch | null = null;
   /** One set per thread (JavaScript runs one call at a time on a thread), made on first use. */
   static shared(): RadixScratch {
     RadixScratch.instance ??= new RadixScratch();
     return RadixScratch.instance;
+  }
+  /** A buffer of at least `size` values. */
+  buffer(size: number): Float32Array {
+    if (this.values.length < size) this.values = new Float32Array(Math.max(size, 2 * this.values.length));
+    return this.values;
+  }
+  /** Per-bucket fill counters for buckets lowest … highest, zeroed. */
+  fill(lowest: number, highest: number): Int32Array {
+    const f = this.filled.subarray(0, highest - lowest + 1);
+    f.fill(0);
+    return f;
   }
 }
