@@ -108,6 +108,8 @@ export function ceCurve(logs: Float64Array): CeCurve {
     [half + 1, SCAN_GRID.indexOf(10)],
     [SCAN_GRID.indexOf(12), G - 1],
   ];
+  // After a run, v holds exp(e·d) at eNext (one step past its last point), r = exp(Δe·d).
+  let previous: { ref: number; eNext: number; de: number } | null = null;
   for (const [from, to] of runs) {
     const step = from <= to ? 1 : -1;
     const e0 = 1 - 2 * SCAN_GRID[from];
@@ -116,16 +118,33 @@ export function ceCurve(logs: Float64Array): CeCurve {
         logCe[k] = -Infinity;
         slope[k] = 0;
       }
+      previous = null;
       continue;
     }
     const de = from === to ? 0 : 1 - 2 * SCAN_GRID[from + step] - e0;
     const ref = e0 > 0 ? hi : lo;
-    for (let i = 0; i < n; i++) {
-      const di = logs[i] - ref;
-      // A zero pot (ln = −∞) adds nothing for e > 0: weight 0, and d = 0 keeps d·weight at 0.
-      d[i] = di === -Infinity ? 0 : di;
-      v[i] = di === -Infinity ? 0 : Math.exp(e0 * di);
-      r[i] = di === -Infinity ? 0 : Math.exp(de * di);
+    const gap = previous && previous.ref === ref ? (e0 - previous.eNext) / previous.de : -1;
+    const ratio = previous ? de / previous.de : 0;
+    if (previous && Number.isInteger(gap) && gap >= 0 && Number.isInteger(ratio) && ratio >= 1) {
+      // Continue from the previous run (same reference): v·r^gap, then r^ratio — no exp.
+      for (let i = 0; i < n; i++) {
+        const ri = r[i];
+        let vi = v[i];
+        for (let t = 0; t < gap; t++) vi *= ri;
+        let rn = ri;
+        for (let t = 1; t < ratio; t++) rn *= ri;
+        v[i] = vi;
+        r[i] = rn;
+      }
+    } else {
+      for (let i = 0; i < n; i++) {
+        const di = logs[i] - ref;
+        // A zero pot (ln = −∞) adds nothing for e > 0: weight 0, and d = 0 keeps d·weight at 0.
+        d[i] = di === -Infinity ? 0 : di;
+        r[i] = di === -Infinity ? 0 : Math.exp(de * di);
+        // A run that starts one step from e = 0 starts at r itself.
+        v[i] = di === -Infinity ? 0 : e0 === de ? r[i] : Math.exp(e0 * di);
+      }
     }
     // Up to four grid points per pass over the paths (fewer passes, independent sums).
     for (let k = from; k !== to + step; ) {
@@ -139,6 +158,7 @@ export function ceCurve(logs: Float64Array): CeCurve {
         slope[k] = -2 * (s1[t] / s0[t] / e - kk / (e * e));
       }
     }
+    previous = { ref, eNext: 1 - 2 * SCAN_GRID[to] + de, de };
   }
   return { logCe, slope };
 }

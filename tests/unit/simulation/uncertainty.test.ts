@@ -6,6 +6,7 @@ import {
   ceCurve,
   certaintyEquivalentPot,
   findCrossings,
+  logCeWithSlope,
   lognormalFromMoments,
   logPots,
   percentileOfSorted,
@@ -162,6 +163,28 @@ describe('break-even λ', () => {
     }
     // Engine 1's search (first sign change on a 21-point grid) misses both.
     expect(breakEvenLambda(a, b)).toEqual({ lambda: null, status: 'none-in-range' });
+  });
+
+  it('scans ln CE and its slope on the grid as computed directly from every pot (1e-12), zero pots included', () => {
+    const n = 3000;
+    const pots = new Float64Array(n);
+    for (let i = 0; i < n; i++) pots[i] = 50000 * Math.exp(0.4 * standardNormalQuantile(((i * 7919) % n + 0.5) / n));
+    const withZero = pots.slice();
+    withZero[17] = 0;
+    for (const sample of [pots, withZero]) {
+      const logs = logPots(sample);
+      const curve = ceCurve(logs);
+      SCAN_GRID.forEach((lambda, k) => {
+        const direct = logCeWithSlope(logs, lambda);
+        if (direct.value === -Infinity) expect(curve.logCe[k]).toBe(-Infinity);
+        else {
+          expect(Math.abs(curve.logCe[k] - direct.value), `ln CE at λ = ${lambda}`).toBeLessThan(1e-12 * Math.abs(direct.value));
+          expect(Math.abs(curve.slope[k] - direct.slope), `slope at λ = ${lambda}`).toBeLessThan(1e-10 * Math.max(1, Math.abs(direct.slope)));
+        }
+      });
+    }
+    // ln CE at λ = ½ is the mean log pot (geometric mean).
+    expect(logCeWithSlope(logPots(pots), 0.5).value).toBeCloseTo(logPots(pots).reduce((a, b) => a + b, 0) / n, 12);
   });
 
   it('says none, identical, or one crossing', () => {
