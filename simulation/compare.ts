@@ -1,7 +1,7 @@
 import { findCrossings, type CeCurve, type Crossing } from './breakEven';
 import type { MemberTimeline } from './cashflows';
 import type { PreparedScenario } from './prepare';
-import { percentileOfSelected, percentileRanks, selectManyInPlace } from './select';
+import { float64ValuesAtRanks, percentileFromRanks, percentileRanks } from './select';
 import {
   difference,
   influenceStandardError,
@@ -71,10 +71,11 @@ export function optionInfluence(pots: Float64Array, lambda: number, targetRealPo
   for (let i = 0; i < n; i++) ce[i] *= cePot;
   const medianPsi = new Float64Array(n);
   const levels = sparsityLevels(0.5, n);
-  const copy = pots.slice();
-  selectManyInPlace(copy, percentileRanks(n, [50, levels[0] * 100, levels[1] * 100]));
-  const median = percentileOfSelected(copy, 50);
-  quantileInfluence(pots, 0.5, median, levels, [percentileOfSelected(copy, levels[0] * 100), percentileOfSelected(copy, levels[1] * 100)], medianPsi);
+  const ranks = percentileRanks(n, [levels[0] * 100, 50, levels[1] * 100]);
+  const atRanks = float64ValuesAtRanks(pots, ranks);
+  const at = (p: number) => percentileFromRanks(n, p, ranks, atRanks);
+  const median = at(50);
+  quantileInfluence(pots, 0.5, median, levels, [at(levels[0] * 100), at(levels[1] * 100)], medianPsi);
   let share: number | null = null;
   let reached: Uint8Array | null = null;
   if (targetRealPot !== null && targetRealPot > 0) {

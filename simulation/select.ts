@@ -108,21 +108,32 @@ export function percentileFromRanks(n: number, rank: number, ranks: readonly num
 }
 
 /**
- * Values at several ranks of non-negative Float32 values without moving them: a two-pass radix
- * selection on the bit patterns (for floats ≥ +0 the IEEE 754 bits, read as unsigned integers,
- * order as the values do). Pass 1 counts the values in each bucket of the top 16 bits (sign,
- * exponent and 7 mantissa bits); the buckets holding the asked ranks follow from the running
- * counts. Pass 2 copies the values of those buckets aside; each rank is then selected among
- * its bucket's few values. About two cheap passes instead of a partitioning select per rank.
- * Falls back to selection on a copy when a value is negative, −0 or NaN.
+ * Values at several ranks of non-negative values without moving them: a two-pass radix
+ * selection on float32 bit patterns (for floats ≥ +0 the IEEE 754 bits, read as unsigned
+ * integers, order as the values do; rounding a double to float32 keeps order, so Float64
+ * values are bucketed by the bits of their float32 rounding). Pass 1 counts the values in each
+ * bucket of the top 16 bits (sign, exponent and 7 mantissa bits); the buckets holding the
+ * asked ranks follow from the running counts. Pass 2 copies the values of those buckets aside
+ * (the exact values); each rank is then selected among its bucket's few values. About two cheap
+ * passes instead of a partitioning select per rank. Falls back to selection on a copy when a
+ * value is negative, −0 or NaN.
  *
  * `ranks` ascending and distinct; returns the value at each, in that order.
  */
 export function float32ValuesAtRanks(values: Float32Array, ranks: readonly number[], scratch: RadixScratch = RadixScratch.shared()): Float64Array {
+  return radixValuesAtRanks(new Uint32Array(values.buffer, values.byteOffset, values.length), values, ranks, scratch);
+}
+
+/** As float32ValuesAtRanks, for Float64 values (exact values returned). */
+export function float64ValuesAtRanks(values: Float64Array, ranks: readonly number[], scratch: RadixScratch = RadixScratch.shared()): Float64Array {
+  const rounded = Float32Array.from(values);
+  return radixValuesAtRanks(new Uint32Array(rounded.buffer), values, ranks, scratch);
+}
+
+function radixValuesAtRanks(bits: Uint32Array, values: Float32Array | Float64Array, ranks: readonly number[], scratch: RadixScratch): Float64Array {
   const n = values.length;
   const R = ranks.length;
   const out = new Float64Array(R);
-  const bits = new Uint32Array(values.buffer, values.byteOffset, n);
   const counts = scratch.counts;
   let lowest = 0xffff;
   let highest = 0;
@@ -183,7 +194,7 @@ export function float32ValuesAtRanks(values: Float32Array, ranks: readonly numbe
 export class RadixScratch {
   readonly counts = new Int32Array(0x10000);
   readonly marks = new Int32Array(0x10000);
-  private values = new Float32Array(1024);
+  private values = new Float64Array(1024);
   private filled = new Int32Array(0x10000);
   private static instance: RadixScratch | null = null;
   /** One set per thread (JavaScript runs one call at a time on a thread), made on first use. */
@@ -191,9 +202,9 @@ export class RadixScratch {
     RadixScratch.instance ??= new RadixScratch();
     return RadixScratch.instance;
   }
-  /** A buffer of at least `size` values. */
-  buffer(size: number): Float32Array {
-    if (this.values.length < size) this.values = new Float32Array(Math.max(size, 2 * this.values.length));
+  /** A buffer of at least `size` values (Float64, so float32 and float64 values are kept exactly). */
+  buffer(size: number): Float64Array {
+    if (this.values.length < size) this.values = new Float64Array(Math.max(size, 2 * this.values.length));
     return this.values;
   }
   /** Per-bucket fill counters for buckets lowest … highest, zeroed. */

@@ -3,7 +3,7 @@ import { ceReturn, type BreakEvenResult, type ComparedPair, type OptionCompariso
 import type { Conventions } from './conventions';
 import type { PreparedScenario } from './prepare';
 import type { PairStore } from './project';
-import { float32ValuesAtRanks, percentileFromRanks, percentileOfSelected, percentileRanks, RadixScratch, selectManyInPlace } from './select';
+import { float32ValuesAtRanks, float64ValuesAtRanks, percentileFromRanks, percentileRanks, RadixScratch } from './select';
 import { mean, percentileKey, standardErrorOfMean } from './statistics';
 import {
   influenceStandardError,
@@ -158,17 +158,18 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
   // Ranks for the percentiles, the 5 % tail and the sparsity levels of each percentile.
   const tailCount = Math.max(1, Math.ceil(SHORTFALL_LEVEL * paths - 1e-9));
   const levels = ranks.map((rank) => sparsityLevels(rank / 100, paths));
-  const selected = terminal.slice();
-  const allRanks = new Set([...bandRanks, tailCount - 1]);
-  for (const [a, b] of levels) for (const r of percentileRanks(paths, [a * 100, b * 100])) allRanks.add(r);
-  selectManyInPlace(selected, [...allRanks].sort((x, y) => x - y));
+  const wanted = new Set([...bandRanks, tailCount - 1]);
+  for (const [a, b] of levels) for (const r of percentileRanks(paths, [a * 100, b * 100])) wanted.add(r);
+  const terminalRanks = [...wanted].sort((x, y) => x - y);
+  const atRanks = float64ValuesAtRanks(terminal, terminalRanks);
+  const percentile = (rank: number) => percentileFromRanks(paths, rank, terminalRanks, atRanks);
   const nominalPercentiles: PercentileValues = {};
   const realPercentiles: PercentileValues = {};
   const realIncome: PercentileValues = {};
   const replacementRatio: PercentileValues = {};
   const af = prepared.annuityFactor;
   ranks.forEach((rank, r) => {
-    const v = percentileOfSelected(selected, rank);
+    const v = percentile(rank);
     nominalPercentiles[keys[r]] = v;
     realPercentiles[keys[r]] = v / deflator;
     realIncome[keys[r]] = v / deflator / af;
@@ -176,10 +177,15 @@ export function summarisePair(prepared: PreparedScenario, store: PairStore, opti
     nominalBands[keys[r]].push(v);
     realBands[keys[r]].push(v / deflator);
   });
-  const atLevels = levels.map(([a, b]): [number, number] => [percentileOfSelected(selected, a * 100), percentileOfSelected(selected, b * 100)]);
-  const tailQuantile = selected[tailCount - 1];
-  // The worst pots in ascending order, summed in that order (engine 1's arithmetic).
-  const worst = selected.subarray(0, tailCount).sort();
+  const atLevels = levels.map(([a, b]): [number, number] => [percentile(a * 100), percentile(b * 100)]);
+  const tailQuantile = atRanks[terminalRanks.indexOf(tailCount - 1)];
+  // The worst pots — those below the tail quantile, then as many equal to it as make the count —
+  // in ascending order, summed in that order (engine 1's arithmetic on its sorted pots).
+  const worst = new Float64Array(tailCount);
+  let below = 0;
+  for (let i = 0; i < paths; i++) if (terminal[i] < tailQuantile) worst[below++] = terminal[i];
+  worst.fill(tailQuantile, below);
+  worst.sort();
   let tailSum = 0;
   for (let i = 0; i < tailCount; i++) tailSum += worst[i];
   const shortfall = tailSum / tailCount;

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 
 import { percentileOfSelected, percentileRanks, selectInPlace, selectManyInPlace } from '@/simulation';
-import { float32ValuesAtRanks, percentileFromRanks } from '@/simulation/select';
+import { float32ValuesAtRanks, float64ValuesAtRanks, percentileFromRanks } from '@/simulation/select';
 import { percentileOfSorted } from '@/simulation/statistics';
 
 describe('selection instead of sorting', () => {
@@ -58,6 +58,12 @@ describe('selection instead of sorting', () => {
           ranks.forEach((r, k) => expect(at[k]).toBe(sorted[r]));
           for (const p of percentiles) expect(percentileFromRanks(values.length, p, ranks, at)).toBe(percentileOfSorted(sorted, p));
           expect(values).toEqual(before); // not moved
+          // Float64 values bucketed by their float32 rounding: exact values at the ranks.
+          const doubles = Float64Array.from(raw.map((v, i) => (v === 0 ? 0 : v * (1 + 1e-12 * (i % 7)))));
+          if (negative) doubles[0] = -1;
+          const sortedDoubles = doubles.slice().sort();
+          const at64 = float64ValuesAtRanks(doubles, ranks);
+          ranks.forEach((r, k) => expect(at64[k]).toBe(sortedDoubles[r]));
         },
       ),
       { numRuns: 150 },
