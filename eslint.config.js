@@ -41,12 +41,6 @@ module.exports = defineConfig([
   { files: ['constants/theme.ts'], rules: { 'no-restricted-syntax': 'off' } },
   { files: ['simulation/**/*.ts', 'figures/**/*.ts'], rules: PURE },
   {
-    // The command-line runner reads and writes scenario files; it moves out of simulation/ to a
-    // thin scripts/ entry with the engine work, and is exempt until then.
-    files: ['simulation/cli.ts'],
-    rules: { 'no-restricted-imports': 'off' },
-  },
-  {
     // figures/ may name the server's stored-result types (erased at build time).
     files: ['figures/**/*.ts'],
     rules: {

@@ -13,7 +13,11 @@ type Row = { option: string; chance: number; [key: string]: unknown };
  * key figures follow as text.
  */
 export function ChanceChart({ rows, width, styleOf }: { rows: RankedOption[]; width: number; styleOf: (optionId: string) => OptionStyle }) {
-  const data: Row[] = rows.map((r) => ({ option: `${r.rank}. ${r.name}`, chance: r.pair.atRetirement.probabilityReachingTarget }));
+  // A run without an income target has no chance to chart (null): those options are left out.
+  const data: Row[] = rows.flatMap((r) => {
+    const chance = r.pair.atRetirement.probabilityReachingTarget;
+    return chance === null ? [] : [{ option: `${r.rank}. ${r.name}`, chance }];
+  });
   const summary = rows.map((r) => `${r.name} ${percent(r.pair.atRetirement.probabilityReachingTarget, 'chance')}`).join('; ');
   const height = Math.max(140, 46 * rows.length + 50);
   return (

@@ -441,6 +441,28 @@ export type Scheme = typeof schemes.$inferSelect;
 /** Binary column (PDF files, attachments): Buffer in TypeScript, bytea in PostgreSQL. */
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
 
+/**
+ * Every terminal real pot of one option × member of a finished run, in path order, so
+ * certainty equivalents, ranks and differences at any λ are exact (not from a sample).
+ * `data` holds the pots as little-endian Float64 split into eight byte planes and deflated
+ * (encoding 'f64le-planes-deflate'; server/jobs/result.ts). `variant` is 'base' or 'stressed'.
+ */
+export const projectionRunPots = pgTable(
+  'projection_run_pots',
+  {
+    runId: uuid('run_id')
+      .notNull()
+      .references(() => projectionRuns.id, { onDelete: 'cascade' }),
+    variant: varchar('variant', { length: 16 }).notNull(),
+    optionId: varchar('option_id', { length: 100 }).notNull(),
+    memberId: varchar('member_id', { length: 100 }).notNull(),
+    paths: integer('paths').notNull(),
+    encoding: varchar('encoding', { length: 40 }).notNull(),
+    data: bytea('data').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.runId, t.variant, t.optionId, t.memberId] })],
+);
+
 /** A board scenario report: a PDF made from one finished run, kept as generated (never regenerated). */
 export const reports = pgTable(
   'reports',

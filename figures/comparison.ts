@@ -84,7 +84,7 @@ export function differenceSentence(d: OptionDifference, baselineName: string, cu
     `certainty-equivalent pot ${moneyChange(d.ce.value, currency)}${note(d.ce)}`,
     `median pot ${moneyChange(d.median.value, currency)}${note(d.median)}`,
     `5th percentile pot ${moneyChange(d.p5.value, currency)}${note(d.p5)}`,
-    `chance of reaching the income target ${percentagePoints(d.chance.value, 'chance')}${note(d.chance)}`,
+    ...(d.chance ? [`chance of reaching the income target ${percentagePoints(d.chance.value, 'chance')}${note(d.chance)}`] : []),
   ];
   return `${d.name} against ${baselineName}: ${parts.join(', ')}.`;
 }

@@ -121,8 +121,8 @@ export type OptionDifference = {
   ce: Difference;
   median: Difference;
   p5: Difference;
-  /** Chance of reaching the income target: a fraction, option − baseline (percentage points when shown). */
-  chance: Difference;
+  /** Chance of reaching the income target: a fraction, option − baseline (percentage points when shown); null when the run has no income target. */
+  chance: Difference | null;
 };
 
 /**
@@ -134,6 +134,10 @@ export type PairedErrors = (optionId: string, baselineId: string, figure: 'ce' |
 function paired(value: number, p: number | Difference | null): Difference {
   if (p === null || typeof p === 'number') return difference(value, p);
   return { ...p, value };
+}
+
+function chanceDifference(a: number | null, b: number | null, error: () => number | Difference | null): Difference | null {
+  return a === null || b === null ? null : paired(a - b, error());
 }
 
 /** Every other option compared with the baseline (by default the top-ranked one). */
@@ -149,7 +153,7 @@ export function differencesToBaseline(ranked: RankedOption[], baselineId: string
       ce: paired(r.ce.pot - base.ce.pot, errors(r.optionId, baselineId, 'ce')),
       median: paired(at(r).percentiles.real.p50 - at(base).percentiles.real.p50, errors(r.optionId, baselineId, 'median')),
       p5: paired(at(r).percentiles.real.p5 - at(base).percentiles.real.p5, errors(r.optionId, baselineId, 'p5')),
-      chance: paired(at(r).probabilityReachingTarget - at(base).probabilityReachingTarget, errors(r.optionId, baselineId, 'chance')),
+      chance: chanceDifference(at(r).probabilityReachingTarget, at(base).probabilityReachingTarget, () => errors(r.optionId, baselineId, 'chance')),
     }));
 }
 

@@ -65,3 +65,14 @@ export const ReportBody = z.strictObject({
   riskAversion: RiskAversion.optional(),
 });
 export type ReportRequest = z.input<typeof ReportBody>;
+
+/** λ (and variant) for reading a finished run's comparison: the board's range, as for a run. */
+export const ComparisonQuery = z.object({
+  lambda: z
+    .string({ message: `is required (a number from ${BOARD_LAMBDA.min} to ${BOARD_LAMBDA.max})` })
+    .trim()
+    .min(1, `is required (a number from ${BOARD_LAMBDA.min} to ${BOARD_LAMBDA.max})`)
+    .transform(Number)
+    .pipe(z.number('must be a number').min(BOARD_LAMBDA.min, `must be at least ${BOARD_LAMBDA.min}`).max(BOARD_LAMBDA.max, `must be at most ${BOARD_LAMBDA.max}`)),
+  variant: z.enum(['base', 'stressed'], { message: 'must be base or stressed' }).default('base'),
+});

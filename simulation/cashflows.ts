@@ -1,12 +1,17 @@
+import type { ContributionBasis, Timing } from './conventions';
+import { spreadGrowth } from './fastMath';
+
 /**
  * A member's contributions, salaries and deflators, year by year.
  *
  * Conventions:
  * - Annual steps from the member's current age to retirement age: n = retirementAge − age
  *   years, year y = 0 … n−1 running from time y to time y+1 (time in years from now).
- * - The contribution contributionRate × salary_y is paid in at the start of year y, where
- *   salary_0 = salary and salary grows by salaryGrowth each year after the first:
- *   salary_y = salary × (1 + salaryGrowth)^y.
+ * - Year y's contribution is contributionRate × (salary_y, or with a qualifying-earnings basis
+ *   min(max(salary_y − L_y, 0), U_y − L_y) with limits L_y = L·(1 + inflation)^y and likewise
+ *   U_y, or L and U when not indexed), where salary_0 = salary and salary grows by
+ *   salaryGrowth each year after the first: salary_y = salary × (1 + salaryGrowth)^y. It is
+ *   paid at the start of year y, or spread through it (see conventions.ts).
  * - Real values at time t divide by the deflator (1 + inflation)^t.
  * - The final salary is the salary of the last working year, salary_{n−1}; its real value
  *   is taken at retirement, finalSalary / (1 + inflation)^n, so a replacement ratio
@@ -41,7 +46,12 @@ export interface MemberTimeline {
 }
 
 /** Build the member's year-by-year cash flows (see the module comment for conventions). */
-export function memberTimeline(member: MemberCashflowInput, inflation: number): MemberTimeline {
+export function memberTimeline(
+  member: MemberCashflowInput,
+  inflation: number,
+  basis: ContributionBasis = { basis: 'full-salary' },
+): MemberTimeline {
+  const band = basis.basis === 'qualifying-earnings' ? basis : null;
   const years = member.retirementAge - member.age;
   if (!(years >= 1) || !Number.isInteger(years)) {
     throw new RangeError(`retirement age must be a whole number of years above age (got ${years})`);
@@ -57,7 +67,12 @@ export function memberTimeline(member: MemberCashflowInput, inflation: number): 
     ages.push(member.age + t);
     if (t < years) {
       if (t > 0) salary *= 1 + member.salaryGrowth;
-      contributions[t] = member.contributionRate * salary;
+      if (band) {
+        const index = band.indexation === 'inflation' ? deflator : 1;
+        const lower = band.lowerLimit * index;
+        const upper = band.upperLimit * index;
+        contributions[t] = member.contributionRate * Math.min(Math.max(salary - lower, 0), upper - lower);
+      } else contributions[t] = member.contributionRate * salary;
       realContributions[t] = contributions[t] / deflator;
     }
     deflator *= 1 + inflation;
@@ -95,12 +110,24 @@ export function growingAnnuityFutureValue(
 }
 
 /**
- * Pot at time n from constant annual return r on the pot `initialPot` and the contributions
- * (paid at the start of each year): initialPot (1 + r)^n + Σ_y c_y (1 + r)^(n − y).
+ * Pot at time n from constant annual return r on the pot `initialPot` and the contributions:
+ *   paid at the start of each year:  initialPot (1 + r)^n + Σ_y c_y (1 + r)^(n − y);
+ *   spread through each year:        initialPot (1 + r)^n + Σ_y c_y s(1 + r) (1 + r)^(n − 1 − y),
+ * with s(q) = spreadGrowth(q), the growth of twelve end-of-month instalments (fastMath.ts).
  */
-export function accumulate(initialPot: number, contributions: ArrayLike<number>, annualReturn: number): number {
+export function accumulate(
+  initialPot: number,
+  contributions: ArrayLike<number>,
+  annualReturn: number,
+  timing: Timing['contributions'] = 'start-of-year',
+): number {
   let pot = initialPot;
   const g = 1 + annualReturn;
-  for (let y = 0; y < contributions.length; y++) pot = (pot + contributions[y]) * g;
+  if (timing === 'spread') {
+    const s = spreadGrowth(g);
+    for (let y = 0; y < contributions.length; y++) pot = pot * g + contributions[y] * s;
+  } else {
+    for (let y = 0; y < contributions.length; y++) pot = (pot + contributions[y]) * g;
+  }
   return pot;
 }

@@ -10,7 +10,10 @@ export {
   GlidePointSchema,
   MemberSchema,
   OptionSchema,
+  SCENARIO_VERSION,
   ScenarioSchema,
+  ScenarioV1Schema,
+  ScenarioV2Schema,
   ScenarioValidationError,
   StressSchema,
   WEIGHT_SUM_TOLERANCE,
@@ -30,11 +33,26 @@ export { checkCorrelationMatrix, cholesky, symmetricEigenvalues, type Correlatio
 export { lognormalFromMoments, momentsFromLognormal, type LognormalParameters } from './lognormal';
 export { weightsAt, type GlidePoint } from './glidePath';
 export { accumulate, growingAnnuityFutureValue, memberTimeline, type MemberTimeline } from './cashflows';
+export {
+  CONTRIBUTION_TIMINGS,
+  ContributionBasisSchema,
+  FORMAT_ONE_CONVENTIONS,
+  FORMAT_TWO_DEFAULTS,
+  GLIDE_WEIGHT_TIMINGS,
+  TimingSchema,
+  UK_QUALIFYING_EARNINGS,
+  glideReadingPoint,
+  type ContributionBasis,
+  type Conventions,
+  type Timing,
+} from './conventions';
+export { fastExp, spreadGrowth, spreadGrowthExact } from './fastMath';
 export { annuityFactor, realRate } from './annuity';
 export {
   BREAK_EVEN_RANGE,
   breakEvenLambda,
   ceAnnualReturn,
+  ceRealReturn,
   certaintyEquivalentPot,
   lambdaFromGamble,
   logCertaintyEquivalent,
@@ -44,6 +62,37 @@ export {
 } from './utility';
 export { standardNormalQuantile } from './normal';
 export { createStream, PATHS_PER_STREAM, streamSeed, type RandomStream, type StreamState } from './random';
+export { Xoshiro128, drawSetStream, mix32, type XoshiroState } from './xoshiro';
+export { ZIGGURAT_LAYERS, ZIGGURAT_R, ZIGGURAT_V, ZIGGURAT_X, zigguratNormal } from './ziggurat';
+export { percentileOfSelected, percentileRanks, selectInPlace, selectManyInPlace } from './select';
+export { marketFor, pathLogReturns, type MarketGenerator } from './market';
+export {
+  difference,
+  influenceStandardError,
+  logCeInfluence,
+  separation,
+  sparsityBandwidth,
+  type Difference,
+  type Separation,
+} from './uncertainty';
+export { SCAN_GRID, ceCurve, findCrossings, logCeWithSlope, type CeCurve, type Crossing, type Crossings } from './breakEven';
+export {
+  ceReturn,
+  compareInfluences,
+  compareMember,
+  compareOptions,
+  comparisonAtLambda,
+  optionInfluence,
+  optionPairs,
+  pairIndexOf,
+  type BreakEvenResult,
+  type ComparedPair,
+  type ComparisonAtLambda,
+  type MemberRanking,
+  type OptionComparison,
+  type OptionInfluence,
+  type PairAtLambda,
+} from './compare';
 export {
   DEFAULT_BAND_BUDGET_BYTES,
   bandBytes,
@@ -52,15 +101,25 @@ export {
   type PreparedPair,
   type PreparedScenario,
 } from './prepare';
-export { pathLogReturns, simulateRange, type PairChunk, type SimulateOptions } from './project';
+export {
+  BLOCK_PATHS,
+  createPairStores,
+  createWalkScratch,
+  simulateRange,
+  walkPair,
+  type PairStore,
+  type SimulateOptions,
+  type StoreOptions,
+  type WalkScratch,
+} from './project';
 export {
   SHORTFALL_LEVEL,
   assembleResult,
   resultToJson,
   summarisePair,
-  type BreakEvenResult,
   type PairResult,
+  type PairSummary,
   type PercentileValues,
   type ProjectionResult,
 } from './summary';
-export { runScenario, type RunOptions } from './run';
+export { SIMULATE_SHARE, runMemberComparison, runScenario, type RunOptions } from './run';

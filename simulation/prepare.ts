@@ -1,6 +1,7 @@
 import { annuityFactor } from './annuity';
 import { memberTimeline, type MemberTimeline } from './cashflows';
 import { cholesky } from './cholesky';
+import { glideReadingPoint } from './conventions';
 import { weightsAt } from './glidePath';
 import { lognormalFromMoments } from './lognormal';
 import type { Scenario } from './schema';
@@ -18,7 +19,7 @@ export interface PreparedPair {
   timeline: MemberTimeline;
   /** Number of annual steps n. */
   years: number;
-  /** Weights for year y (years to retirement n − y at its start) at [y × funds + i]. */
+  /** Weights held through year y at [y × funds + i] (read at the glide-path point of the timing convention). */
   weights: Float64Array;
   /** 1 − Σ wᵢcᵢ for year y. */
   chargeFactor: Float64Array;
@@ -35,6 +36,8 @@ export interface PreparedScenario {
   sigma: Float64Array;
   /** Lower Cholesky factor of the correlations, row-major funds × funds. */
   chol: Float64Array;
+  /** diag(σ)·L, row-major: fund i's log return is μᵢ + Σₖ scaledChol[i×F + k]·zₖ (format 2). */
+  scaledChol: Float64Array;
   /** Longest horizon over members: every path draws maxYears × funds normals. */
   maxYears: number;
   pairs: PreparedPair[];
@@ -67,7 +70,7 @@ export function prepareScenario(scenario: Scenario): PreparedScenario {
 
   const pairs: PreparedPair[] = [];
   let maxYears = 0;
-  const timelines = scenario.members.map((m) => memberTimeline(m, scenario.inflation));
+  const timelines = scenario.members.map((m) => memberTimeline(m, scenario.inflation, scenario.contributionBasis));
   for (const t of timelines) maxYears = Math.max(maxYears, t.years);
   scenario.options.forEach((option, optionIndex) => {
     timelines.forEach((timeline, memberIndex) => {
@@ -76,7 +79,7 @@ export function prepareScenario(scenario: Scenario): PreparedScenario {
       const chargeFactor = new Float64Array(n);
       const w = new Float64Array(F);
       for (let y = 0; y < n; y++) {
-        weightsAt(option.glidePath, fundIds, n - y, w);
+        weightsAt(option.glidePath, fundIds, glideReadingPoint(scenario.timing, n, y), w);
         let c = 0;
         for (let i = 0; i < F; i++) {
           weights[y * F + i] = w[i];
@@ -97,6 +100,8 @@ export function prepareScenario(scenario: Scenario): PreparedScenario {
       });
     });
   });
+  const scaledChol = new Float64Array(F * F);
+  for (let i = 0; i < F; i++) for (let k = 0; k < F; k++) scaledChol[i * F + k] = sigma[i] * chol[i * F + k];
   return {
     scenario,
     fundIds,
@@ -104,6 +109,7 @@ export function prepareScenario(scenario: Scenario): PreparedScenario {
     mu,
     sigma,
     chol,
+    scaledChol,
     maxYears,
     pairs,
     stressFund,

@@ -1,9 +1,15 @@
 import { z } from 'zod';
 
 import { checkCorrelationMatrix } from './cholesky';
+import { ContributionBasisSchema, TimingSchema, FORMAT_ONE_CONVENTIONS, type Conventions } from './conventions';
 
 /**
- * Scenario input, JSON format version 1 (documented in simulation/README.md).
+ * Scenario input, JSON format versions 1 and 2 (documented in simulation/README.md).
+ *
+ * Format 1 (no `version`, or `version: 1`) runs on engine 1's random numbers and conventions
+ * (glide weights and contributions at the start of each year, contributions on full salary)
+ * and gives engine 1's results byte for byte. Format 2 adds the timing conventions and the
+ * contribution basis and runs on the format-2 random numbers.
  *
  * All rates are fractions (0.025 = 2.5 %). Percentile ranks are on the 0–100 scale
  * (5 = 5th percentile). Ages are whole years.
@@ -112,8 +118,9 @@ export const AnnuitySchema = z.object({
   years: z.number().int('must be a whole number of years').min(1, 'must be at least 1').max(100, 'must be at most 100'),
 });
 
-export const ScenarioSchema = z.object({
-  /** Format version; only 1 exists. */
+/** Scenario format 1: the fields every format shares. */
+export const ScenarioV1Schema = z.object({
+  /** Format version: 1 when absent. */
   version: z.literal(1).optional(),
   seed: z.number().int('must be a whole number').min(-(2 ** 53) + 1).max(2 ** 53 - 1),
   paths: z.number().int('must be a whole number').min(1, 'must be at least 1').max(1_000_000, 'must be at most 1,000,000'),
@@ -134,10 +141,26 @@ export const ScenarioSchema = z.object({
   stress: StressSchema.optional(),
 });
 
-/** Scenario as written (optional fields may be missing). */
-export type ScenarioInput = z.input<typeof ScenarioSchema>;
-/** Validated scenario with defaults filled in. */
-export type Scenario = z.output<typeof ScenarioSchema>;
+/** Scenario format 2: format 1 plus the timing conventions and the contribution basis. */
+export const ScenarioV2Schema = ScenarioV1Schema.extend({
+  version: z.literal(2),
+  timing: TimingSchema.prefault({}),
+  contributionBasis: ContributionBasisSchema.prefault({ basis: 'full-salary' }),
+});
+
+/** The current scenario format (2); its `.shape` holds the field schemas forms reuse. */
+export const ScenarioSchema = ScenarioV2Schema;
+
+/** Newest scenario format version. */
+export const SCENARIO_VERSION = 2;
+
+/** Scenario as written (optional fields may be missing), in either format. */
+export type ScenarioInput = z.input<typeof ScenarioV1Schema> | z.input<typeof ScenarioV2Schema>;
+/**
+ * Validated scenario with defaults filled in. A format-1 scenario carries format 1's
+ * conventions (start of year, full salary) and `version: 1`.
+ */
+export type Scenario = Omit<z.output<typeof ScenarioV2Schema>, 'version' | 'timing' | 'contributionBasis'> & { version: 1 | 2 } & Conventions;
 export type Fund = z.output<typeof FundSchema>;
 export type InvestmentOption = z.output<typeof OptionSchema>;
 export type Member = z.output<typeof MemberSchema>;
@@ -205,6 +228,11 @@ function crossFieldIssues(raw: Record<string, unknown>): ValidationIssue[] {
   if (fundsKnown && isRecord(raw.stress) && typeof raw.stress.fundId === 'string' && !fundIds.includes(raw.stress.fundId)) {
     issues.push({ path: 'stress.fundId', message: `unknown fund id "${raw.stress.fundId}"` });
   }
+  if (raw.version !== 2) {
+    for (const field of ['timing', 'contributionBasis']) {
+      if (field in raw) issues.push({ path: field, message: 'is a scenario format 2 field: add "version": 2' });
+    }
+  }
   if (raw.antithetic === true && typeof raw.paths === 'number' && raw.paths % 2 !== 0) {
     issues.push({ path: 'paths', message: 'must be even when antithetic is true (paths come in pairs)' });
   }
@@ -217,7 +245,11 @@ function crossFieldIssues(raw: Record<string, unknown>): ValidationIssue[] {
  */
 export function validateScenario(input: unknown): ValidationResult {
   if (!isRecord(input)) return { ok: false, issues: [{ path: '', message: 'scenario must be a JSON object' }] };
-  const parsed = ScenarioSchema.safeParse(input);
+  if (input.version !== undefined && input.version !== 1 && input.version !== 2) {
+    return { ok: false, issues: [{ path: 'version', message: `must be 1 or 2 (got ${JSON.stringify(input.version)})` }] };
+  }
+  const formatTwo = input.version === 2;
+  const parsed = formatTwo ? ScenarioV2Schema.safeParse(input) : ScenarioV1Schema.safeParse(input);
   const issues: ValidationIssue[] = parsed.success
     ? []
     : parsed.error.issues.map((issue) => ({ path: issue.path.map(String).join('.'), message: issue.message }));
@@ -230,7 +262,12 @@ export function validateScenario(input: unknown): ValidationResult {
     return true;
   });
   if (unique.length > 0 || !parsed.success) return { ok: false, issues: unique };
-  return { ok: true, scenario: parsed.data };
+  const data = parsed.data;
+  const scenario: Scenario =
+    'timing' in data && data.version === 2
+      ? { ...data, version: 2 }
+      : { ...data, version: 1, timing: { ...FORMAT_ONE_CONVENTIONS.timing }, contributionBasis: { ...FORMAT_ONE_CONVENTIONS.contributionBasis } };
+  return { ok: true, scenario };
 }
 
 /** Validate or throw {@link ScenarioValidationError}. */

@@ -1,15 +1,20 @@
-import type { PairChunk } from './project';
+import { ceCurve, type CeCurve } from './breakEven';
+import { ceReturn, type BreakEvenResult, type ComparedPair, type OptionComparison } from './compare';
+import type { Conventions } from './conventions';
 import type { PreparedScenario } from './prepare';
+import type { PairStore } from './project';
+import { float32ValuesAtRanks, float64ValuesAtRanks, percentileFromRanks, percentileRanks, RadixScratch } from './select';
+import { mean, percentileKey, standardErrorOfMean } from './statistics';
 import {
-  fractionAtLeast,
-  lowerTailMean,
-  mean,
-  percentileKey,
-  percentileOfSorted,
-  standardErrorOfMean,
-} from './statistics';
-import { breakEvenLambda, ceAnnualReturn, certaintyEquivalentPot, type BreakEven } from './utility';
-import { ENGINE_VERSION, FORMAT_VERSION } from './version';
+  influenceStandardError,
+  logCeInfluence,
+  quantileInfluence,
+  shareInfluence,
+  sparsityLevels,
+  tailMeanInfluence,
+} from './uncertainty';
+import { logPots } from './utility';
+import { ENGINE_VERSION } from './version';
 
 /** Percentile values keyed "p5", "p50", … */
 export type PercentileValues = Record<string, number>;
@@ -39,8 +44,11 @@ export interface PairResult {
     percentiles: { nominal: PercentileValues; real: PercentileValues };
     /** Real pot needed: targetReplacementRatio × real final salary × annuity factor. */
     targetRealPot: number;
-    /** Fraction of paths whose real pot is at least targetRealPot. */
-    probabilityReachingTarget: number;
+    /**
+     * Fraction of paths whose real pot is at least targetRealPot. Format 2: null when the
+     * target is 0 (no target; format 1 gives 1).
+     */
+    probabilityReachingTarget: number | null;
     /** Mean of the worst 5 % of pots. */
     expectedShortfall: NominalReal & { level: number };
     /** Level real income the pot buys (real pot ÷ annuity factor), percentiles. */
@@ -54,15 +62,21 @@ export interface PairResult {
       /** Constant real annual return (net of charges) giving that pot from the same contributions. */
       realAnnualReturn: number | null;
     };
+    /**
+     * Monte Carlo standard errors (antithetic-aware, by influence functions; uncertainty.ts) of
+     * the figures above, in real money: each reported percentile, the chance of reaching the
+     * target (null without a target), the expected shortfall and the certainty-equivalent pot
+     * (null when it cannot be estimated). The mean's is `standardError`.
+     */
+    uncertainty: {
+      percentiles: { real: PercentileValues };
+      probabilityReachingTarget: number | null;
+      expectedShortfall: { real: number };
+      certaintyEquivalent: { realPot: number | null };
+    };
   };
   /** Real pot at retirement for every path, in path order (not written to JSON unless asked). */
   terminalRealPots: Float64Array;
-}
-
-export interface BreakEvenResult extends BreakEven {
-  memberId: string;
-  optionA: string;
-  optionB: string;
 }
 
 /** A projection result (format described in simulation/README.md). */
@@ -82,27 +96,37 @@ export interface ProjectionResult {
   results: PairResult[];
   /** For each member, every pair of options: λ where their certainty-equivalent pots are equal. */
   breakEven: BreakEvenResult[];
+  /** Timing conventions and contribution basis the run used (format 1: start of year, full salary). */
+  conventions: Conventions;
+  /** For each member, every pair of options: differences at the run's λ with standard errors. */
+  comparisons: OptionComparison[];
+}
+
+const EMPTY_CURVE: CeCurve = { logCe: new Float64Array(0), slope: new Float64Array(0) };
+
+/** What summarising one pair gives: its result, and its CE curve for the break-even scan (empty with one option). */
+export interface PairSummary {
+  result: PairResult;
+  curve: CeCurve;
 }
 
 /**
- * Summarise one pair from its chunks (any split of the paths, in any order; they are put in
- * path order). Working memory beyond the chunks: one Float32 column of `paths` values and the
- * retained Float64 terminal pots.
+ * Summarise one pair from its store (every path simulated). Percentiles by selection, not
+ * sorting (select.ts): per age by radix selection on the age's column, at retirement by
+ * Floyd–Rivest selection on a copy of the pots. Working memory beyond the store: two Float64
+ * arrays of `paths` values, the radix tables (512 KiB), and the returned real pots (on a SharedArrayBuffer with `shared`, so other threads
+ * can read them). The store's arrays are only read.
  */
-export function summarisePair(prepared: PreparedScenario, pairIndex: number, chunks: readonly PairChunk[]): PairResult {
+export function summarisePair(prepared: PreparedScenario, store: PairStore, options: { shared?: boolean } = {}): PairSummary {
   const { scenario } = prepared;
-  const pair = prepared.pairs[pairIndex];
-  const ordered = [...chunks].filter((c) => c.pairIndex === pairIndex).sort((a, b) => a.start - b.start);
+  const pair = prepared.pairs[store.pairIndex];
   const paths = scenario.paths;
-  let expected = 0;
-  for (const c of ordered) {
-    if (c.start !== expected) throw new RangeError(`path chunks are not contiguous at path ${expected}`);
-    expected += c.length;
-  }
-  if (expected !== paths) throw new RangeError(`path chunks cover ${expected} of ${paths} paths`);
+  const antithetic = scenario.antithetic;
+  const formatOne = scenario.version === 1;
   const { timeline, years } = pair;
   const ranks = scenario.percentiles;
   const keys = ranks.map(percentileKey);
+  const bandRanks = percentileRanks(paths, ranks);
 
   // Per-age bands.
   const nominalBands: Record<string, number[]> = {};
@@ -111,42 +135,41 @@ export function summarisePair(prepared: PreparedScenario, pairIndex: number, chu
     nominalBands[key] = [timeline.initialPot];
     realBands[key] = [timeline.initialPot];
   }
-  const column = new Float32Array(paths);
-  for (let y = 0; y < years - 1; y++) {
-    let offset = 0;
-    for (const c of ordered) {
-      column.set(c.bands.subarray(y * c.length, (y + 1) * c.length), offset);
-      offset += c.length;
+  if (store.bands !== null) {
+    const scratch = RadixScratch.shared();
+    for (let y = 0; y < years - 1; y++) {
+      const atRanks = float32ValuesAtRanks(store.bands.subarray(y * paths, (y + 1) * paths), bandRanks, scratch);
+      const deflator = timeline.deflators[y + 1];
+      ranks.forEach((rank, r) => {
+        const v = percentileFromRanks(paths, rank, bandRanks, atRanks);
+        nominalBands[keys[r]].push(v);
+        realBands[keys[r]].push(v / deflator);
+      });
     }
-    column.sort();
-    const deflator = timeline.deflators[y + 1];
-    ranks.forEach((rank, r) => {
-      const v = percentileOfSorted(column, rank);
-      nominalBands[keys[r]].push(v);
-      realBands[keys[r]].push(v / deflator);
-    });
   }
 
   // At retirement.
   const deflator = timeline.deflators[years];
-  const terminal = new Float64Array(paths);
-  let offset = 0;
-  for (const c of ordered) {
-    terminal.set(c.terminal, offset);
-    offset += c.length;
-  }
+  const terminal = store.terminal;
   const meanNominal = mean(terminal);
-  const seNominal = standardErrorOfMean(terminal, scenario.antithetic);
-  const terminalRealPots = new Float64Array(paths);
+  const seNominal = standardErrorOfMean(terminal, antithetic);
+  const terminalRealPots = new Float64Array(options.shared ? new SharedArrayBuffer(8 * paths) : new ArrayBuffer(8 * paths));
   for (let i = 0; i < paths; i++) terminalRealPots[i] = terminal[i] / deflator;
-  const sorted = terminal.slice().sort();
+  // Ranks for the percentiles, the 5 % tail and the sparsity levels of each percentile.
+  const tailCount = Math.max(1, Math.ceil(SHORTFALL_LEVEL * paths - 1e-9));
+  const levels = ranks.map((rank) => sparsityLevels(rank / 100, paths));
+  const wanted = new Set([...bandRanks, tailCount - 1]);
+  for (const [a, b] of levels) for (const r of percentileRanks(paths, [a * 100, b * 100])) wanted.add(r);
+  const terminalRanks = [...wanted].sort((x, y) => x - y);
+  const atRanks = float64ValuesAtRanks(terminal, terminalRanks);
+  const percentile = (rank: number) => percentileFromRanks(paths, rank, terminalRanks, atRanks);
   const nominalPercentiles: PercentileValues = {};
   const realPercentiles: PercentileValues = {};
   const realIncome: PercentileValues = {};
   const replacementRatio: PercentileValues = {};
   const af = prepared.annuityFactor;
   ranks.forEach((rank, r) => {
-    const v = percentileOfSorted(sorted, rank);
+    const v = percentile(rank);
     nominalPercentiles[keys[r]] = v;
     realPercentiles[keys[r]] = v / deflator;
     realIncome[keys[r]] = v / deflator / af;
@@ -154,13 +177,44 @@ export function summarisePair(prepared: PreparedScenario, pairIndex: number, chu
     nominalBands[keys[r]].push(v);
     realBands[keys[r]].push(v / deflator);
   });
+  const atLevels = levels.map(([a, b]): [number, number] => [percentile(a * 100), percentile(b * 100)]);
+  const tailQuantile = atRanks[terminalRanks.indexOf(tailCount - 1)];
+  // The worst pots — those below the tail quantile, then as many equal to it as make the count —
+  // in ascending order, summed in that order (engine 1's arithmetic on its sorted pots).
+  const worst = new Float64Array(tailCount);
+  let below = 0;
+  for (let i = 0; i < paths; i++) if (terminal[i] < tailQuantile) worst[below++] = terminal[i];
+  worst.fill(tailQuantile, below);
+  worst.sort();
+  let tailSum = 0;
+  for (let i = 0; i < tailCount; i++) tailSum += worst[i];
+  const shortfall = tailSum / tailCount;
+
   const targetRealPot = scenario.targetReplacementRatio * timeline.realFinalSalary * af;
-  const shortfall = lowerTailMean(sorted, SHORTFALL_LEVEL);
+  const threshold = targetRealPot * deflator;
+  let reaching = 0;
+  for (let i = 0; i < paths; i++) if (terminal[i] >= threshold) reaching++;
+  const noTarget = !formatOne && !(targetRealPot > 0);
   const lambda = scenario.riskAversion;
-  const cePot = certaintyEquivalentPot(terminalRealPots, lambda);
+  const logs = logPots(terminalRealPots);
+  const psi = new Float64Array(paths);
+  const cePot = Math.exp(logCeInfluence(logs, lambda, psi)); // = certaintyEquivalentPot(terminalRealPots, λ)
+  const ceSe = influenceStandardError(psi, antithetic);
+
+  // Standard errors of the figures at retirement (real money), antithetic-aware.
+  const percentileErrors: PercentileValues = {};
+  ranks.forEach((rank, r) => {
+    quantileInfluence(terminal, rank / 100, nominalPercentiles[keys[r]], levels[r], atLevels[r], psi);
+    percentileErrors[keys[r]] = (influenceStandardError(psi, antithetic) ?? Number.NaN) / deflator;
+  });
+  shareInfluence(terminal, threshold, psi);
+  const probabilitySe = noTarget ? null : influenceStandardError(psi, antithetic);
+  tailMeanInfluence(terminal, SHORTFALL_LEVEL, tailQuantile, shortfall, psi);
+  const shortfallSe = (influenceStandardError(psi, antithetic) ?? Number.NaN) / deflator;
+
   const option = scenario.options[pair.optionIndex];
   const member = scenario.members[pair.memberIndex];
-  return {
+  const result: PairResult = {
     optionId: option.id,
     memberId: member.id,
     years,
@@ -168,49 +222,40 @@ export function summarisePair(prepared: PreparedScenario, pairIndex: number, chu
     bands: { nominal: nominalBands, real: realBands },
     atRetirement: {
       mean: { nominal: meanNominal, real: mean(terminalRealPots) },
-      standardError: { nominal: seNominal, real: standardErrorOfMean(terminalRealPots, scenario.antithetic) },
+      standardError: { nominal: seNominal, real: standardErrorOfMean(terminalRealPots, antithetic) },
       percentiles: { nominal: nominalPercentiles, real: realPercentiles },
       targetRealPot,
-      probabilityReachingTarget: fractionAtLeast(sorted, targetRealPot * deflator),
+      probabilityReachingTarget: noTarget ? null : reaching / paths,
       expectedShortfall: { level: SHORTFALL_LEVEL, nominal: shortfall, real: shortfall / deflator },
       realIncome,
       replacementRatio: timeline.realFinalSalary > 0 ? replacementRatio : null,
       certaintyEquivalent: {
         lambda,
         realPot: cePot,
-        realAnnualReturn: ceAnnualReturn(cePot, {
-          initialPot: timeline.initialPot,
-          contributions: timeline.realContributions,
-        }),
+        realAnnualReturn: ceReturn(prepared, timeline, cePot),
+      },
+      uncertainty: {
+        percentiles: { real: percentileErrors },
+        probabilityReachingTarget: probabilitySe,
+        expectedShortfall: { real: shortfallSe },
+        certaintyEquivalent: { realPot: ceSe === null ? null : ceSe * cePot },
       },
     },
     terminalRealPots,
   };
+  // The CE curve only serves break-even searches between options.
+  return { result, curve: scenario.options.length > 1 ? ceCurve(logs) : EMPTY_CURVE };
 }
 
-/** Assemble the run's result from every pair's summary (in pair order). */
-export function assembleResult(prepared: PreparedScenario, results: PairResult[]): ProjectionResult {
+/**
+ * Assemble the run's result from every pair's summary (in pair order) and the comparisons
+ * (member by member, option pairs in the order of optionPairs).
+ */
+export function assembleResult(prepared: PreparedScenario, results: PairResult[], compared: ComparedPair[]): ProjectionResult {
   const { scenario } = prepared;
-  const M = scenario.members.length;
-  const O = scenario.options.length;
-  const breakEven: BreakEvenResult[] = [];
-  for (let m = 0; m < M; m++) {
-    for (let a = 0; a < O; a++) {
-      for (let b = a + 1; b < O; b++) {
-        const ra = results[a * M + m];
-        const rb = results[b * M + m];
-        breakEven.push({
-          memberId: scenario.members[m].id,
-          optionA: scenario.options[a].id,
-          optionB: scenario.options[b].id,
-          ...breakEvenLambda(ra.terminalRealPots, rb.terminalRealPots),
-        });
-      }
-    }
-  }
   return {
     format: 'keelson-projection-result',
-    formatVersion: FORMAT_VERSION,
+    formatVersion: scenario.version,
     engineVersion: ENGINE_VERSION,
     seed: scenario.seed,
     paths: scenario.paths,
@@ -221,7 +266,9 @@ export function assembleResult(prepared: PreparedScenario, results: PairResult[]
     annuityFactor: prepared.annuityFactor,
     stress: scenario.stress ? { ...scenario.stress } : null,
     results,
-    breakEven,
+    breakEven: compared.map((c) => c.breakEven),
+    conventions: { timing: { ...scenario.timing }, contributionBasis: { ...scenario.contributionBasis } },
+    comparisons: compared.map((c) => c.comparison),
   };
 }
 

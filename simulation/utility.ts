@@ -1,4 +1,5 @@
-import { accumulate } from './cashflows';
+import { accumulate, type MemberTimeline } from './cashflows';
+import type { Timing } from './conventions';
 import { findRoot } from './roots';
 
 /**
@@ -67,18 +68,33 @@ export interface ContributionSchedule {
  * r ∈ (−1, ∞). Real pots with real contributions give a real return. Returns −1 for a pot of
  * zero and null when there is nothing invested.
  */
-export function ceAnnualReturn(pot: number, schedule: ContributionSchedule): number | null {
+export function ceAnnualReturn(pot: number, schedule: ContributionSchedule, timing: Timing['contributions'] = 'start-of-year'): number | null {
   let invested = schedule.initialPot;
   for (let y = 0; y < schedule.contributions.length; y++) invested += schedule.contributions[y];
   if (!(invested > 0) || !Number.isFinite(pot)) return null;
   if (pot <= 0) return -1;
   const target = Math.log(pot);
-  const f = (r: number) => Math.log(accumulate(schedule.initialPot, schedule.contributions, r)) - target;
+  const f = (r: number) => Math.log(accumulate(schedule.initialPot, schedule.contributions, r, timing)) - target;
   const lo = -1 + 1e-12;
   if (f(lo) >= 0) return lo;
   let hi = 1;
   while (f(hi) < 0 && hi < 1e6) hi *= 2;
   return findRoot(f, lo, hi, 1e-13);
+}
+
+/**
+ * The constant real annual return (net of charges) that turns the member's contributions,
+ * paid with the scenario's timing convention, into the real pot `realPot` at retirement.
+ * Solved in money of the day — the nominal return R with
+ *   accumulate(pot₀, nominal contributions, R, timing) = realPot × (1 + inflation)^n —
+ * and converted by the Fisher relation r = (1 + R)/(1 + inflation) − 1, so instalments paid
+ * part-way through a year are deflated exactly. Null when nothing is invested.
+ */
+export function ceRealReturn(realPot: number, timeline: MemberTimeline, timing: Timing['contributions']): number | null {
+  const nominal = ceAnnualReturn(realPot * timeline.deflators[timeline.years], { initialPot: timeline.initialPot, contributions: timeline.contributions }, timing);
+  if (nominal === null) return null;
+  if (nominal <= -1 + 1e-12) return -1;
+  return (1 + nominal) / timeline.deflators[1] - 1;
 }
 
 /** Outcome of a break-even search. */

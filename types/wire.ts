@@ -6,8 +6,8 @@
  */
 export type Wire<T> = T extends Date
   ? string
-  : T extends readonly (infer U)[]
-    ? Wire<U>[]
+  : T extends readonly unknown[]
+    ? { [K in keyof T]: Wire<T[K]> }
     : T extends object
       ? { [K in keyof T]: Wire<T[K]> }
       : T;

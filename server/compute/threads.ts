@@ -2,12 +2,14 @@ import { availableParallelism } from 'node:os';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 
-import { DEFAULT_BAND_BUDGET_BYTES, planBatches, prepareScenario } from '../../simulation/prepare';
-import type { PairChunk } from '../../simulation/project';
-import { PATHS_PER_STREAM } from '../../simulation/random';
+import type { CeCurve } from '../../simulation/breakEven';
+import { pairIndexOf, type ComparedPair } from '../../simulation/compare';
+import { DEFAULT_BAND_BUDGET_BYTES, planBatches, prepareScenario, type PreparedScenario } from '../../simulation/prepare';
+import { BLOCK_PATHS, createPairStores, type PairStore } from '../../simulation/project';
+import { SIMULATE_SHARE } from '../../simulation/run';
 import { parseScenario } from '../../simulation/schema';
-import { assembleResult, summarisePair, type PairResult, type ProjectionResult } from '../../simulation/summary';
-import type { RangeJob, WorkerReply } from './protocol';
+import { assembleResult, type PairResult, type ProjectionResult } from '../../simulation/summary';
+import type { ComputeJob, SharedStore, SummarisedPair, WorkerReply } from './protocol';
 
 export interface ThreadedRunOptions {
   /** Worker threads to use (default: available parallelism). At least 1. */
@@ -18,8 +20,8 @@ export interface ThreadedRunOptions {
   bandBudgetBytes?: number;
   /** Reuse these workers (kept warm between runs) instead of starting and stopping new ones. */
   pool?: ComputePool;
-  /** Filled with wall-clock milliseconds spent waiting for the workers and summarising. */
-  timing?: { simulateMs: number; summariseMs: number };
+  /** Filled with wall-clock milliseconds spent in each phase (all of it in the workers). */
+  timing?: { simulateMs: number; summariseMs: number; compareMs?: number };
 }
 
 // Workers are TypeScript: a one-line CommonJS bootstrap registers tsx's require hook and loads
@@ -27,13 +29,16 @@ export interface ThreadedRunOptions {
 const WORKER_FILE = path.join(__dirname, 'worker.ts');
 const BOOTSTRAP = `require('tsx/cjs'); require(${JSON.stringify(WORKER_FILE)});`;
 
+/** Share of the progress bar for the batches; the comparisons take the rest. */
+const BATCHES_SHARE = 0.9;
+
 /**
- * Split [0, paths) into `parts` contiguous ranges, with boundaries on multiples of one
- * stream's worth of paths where possible (a range may start anywhere; alignment only avoids
- * skipping ahead in a stream).
+ * Split [0, paths) into `parts` contiguous ranges, with boundaries on multiples of one block
+ * of paths where possible (a range may start anywhere: every path's numbers depend only on
+ * the seed and the path; alignment only keeps blocks full).
  */
 export function splitPaths(paths: number, parts: number, antithetic = false): [number, number][] {
-  const unit = PATHS_PER_STREAM * (antithetic ? 2 : 1);
+  const unit = BLOCK_PATHS * (antithetic ? 2 : 1);
   const units = Math.ceil(paths / unit);
   const n = Math.max(1, Math.min(parts, units));
   const ranges: [number, number][] = [];
@@ -46,9 +51,11 @@ export function splitPaths(paths: number, parts: number, antithetic = false): [n
   return ranges;
 }
 
+type Done = Exclude<WorkerReply, { type: 'progress' | 'error' }>;
+
 class WorkerHandle {
   private readonly worker: Worker;
-  private pending = new Map<number, { resolve: (c: PairChunk[]) => void; reject: (e: Error) => void; progress: (f: number) => void }>();
+  private pending = new Map<number, { resolve: (r: Done) => void; reject: (e: Error) => void; progress: (f: number) => void }>();
 
   constructor() {
     this.worker = new Worker(BOOTSTRAP, { eval: true });
@@ -56,12 +63,12 @@ class WorkerHandle {
       const job = this.pending.get(reply.jobId);
       if (!job) return;
       if (reply.type === 'progress') job.progress(reply.fraction);
-      else if (reply.type === 'done') {
-        this.pending.delete(reply.jobId);
-        job.resolve(reply.chunks);
-      } else {
+      else if (reply.type === 'error') {
         this.pending.delete(reply.jobId);
         job.reject(new Error(`simulation worker failed: ${reply.message}`));
+      } else {
+        this.pending.delete(reply.jobId);
+        job.resolve(reply);
       }
     });
     this.worker.on('error', (error) => this.failAll(error));
@@ -70,9 +77,13 @@ class WorkerHandle {
     });
   }
 
-  run(job: RangeJob, progress: (f: number) => void): Promise<PairChunk[]> {
+  run<T extends Done['type']>(job: ComputeJob, expect: T, progress: (f: number) => void = () => {}): Promise<Extract<Done, { type: T }>> {
     return new Promise((resolve, reject) => {
-      this.pending.set(job.jobId, { resolve, reject, progress });
+      this.pending.set(job.jobId, {
+        resolve: (r) => (r.type === expect ? resolve(r as Extract<Done, { type: T }>) : reject(new Error(`simulation worker answered ${r.type} to ${job.type}`))),
+        reject,
+        progress,
+      });
       this.worker.postMessage(job);
     });
   }
@@ -110,13 +121,36 @@ export class ComputePool {
   }
 }
 
+/** Items split into `parts` groups of about equal total weight (largest first, to the lightest group). */
+export function balance<T>(items: T[], parts: number, weight: (item: T) => number): T[][] {
+  const groups: T[][] = Array.from({ length: Math.max(1, parts) }, () => []);
+  const loads = groups.map(() => 0);
+  for (const item of [...items].sort((a, b) => weight(b) - weight(a))) {
+    const k = loads.indexOf(Math.min(...loads));
+    groups[k].push(item);
+    loads[k] += weight(item);
+  }
+  return groups.filter((g) => g.length > 0);
+}
+
+const shareStore = (s: PairStore): SharedStore => ({
+  pairIndex: s.pairIndex,
+  paths: s.paths,
+  bands: s.bands ? (s.bands.buffer as SharedArrayBuffer) : null,
+  terminal: s.terminal.buffer as SharedArrayBuffer,
+});
+
 /**
- * Validate and run a scenario on `threads` worker threads (or on `pool`). Paths are split into contiguous
- * ranges, one per thread; each worker runs the pure path loop and transfers its typed arrays
- * back; the main thread puts the chunks in path order and summarises. Because every path
- * depends only on (seed, path index, scenario), the result is byte-identical to runScenario
- * and to any other thread count. Memory as runScenario (the batches are the same); the
- * summaries run on the calling thread.
+ * Validate and run a scenario on `threads` worker threads (or on `pool`), in the engine's three
+ * phases (simulation/run.ts), all computed in the workers:
+ * 1. simulate — paths split into contiguous ranges, one per worker, written straight into
+ *    shared memory (no copying back);
+ * 2. summarise — the batch's pairs shared out among the workers (about equal work each);
+ * 3. compare — every member × pair of options shared out likewise, reading the real pots
+ *    from shared memory.
+ * The calling thread only hands out work and assembles the result. Because every path depends
+ * only on (seed, path index, scenario) and every summary on a whole pair, the result is
+ * byte-identical to runScenario and to any other thread count. Memory as runScenario.
  *
  * Throws ScenarioValidationError for invalid input.
  */
@@ -126,52 +160,75 @@ export async function runScenarioThreaded(input: unknown, options: ThreadedRunOp
   const batches = planBatches(prepared, options.bandBudgetBytes ?? DEFAULT_BAND_BUDGET_BYTES);
   const threads = options.pool ? options.pool.size : Math.max(1, Math.floor(options.threads ?? availableParallelism()));
   const ranges = splitPaths(scenario.paths, threads, scenario.antithetic);
-  const pool = options.pool ?? new ComputePool(ranges.length);
-  const workers = ranges.map((_, k) => pool.worker(k));
+  const pool = options.pool ?? new ComputePool(threads);
   const timing = options.timing ?? { simulateMs: 0, summariseMs: 0 };
   timing.simulateMs = 0;
   timing.summariseMs = 0;
+  timing.compareMs = 0;
   const results: PairResult[] = new Array(prepared.pairs.length);
+  const curves: CeCurve[] = new Array(prepared.pairs.length);
   let jobId = 0;
+  const report = (fraction: number) => options.onProgress?.(Math.min(1, fraction));
   try {
     for (let b = 0; b < batches.length; b++) {
-      const batch = batches[b];
+      const stores = createPairStores(prepared, batches[b], { shared: true });
       const done = ranges.map(() => 0);
-      const report = () => {
-        if (!options.onProgress) return;
-        let sum = 0;
-        ranges.forEach(([s, e], k) => (sum += done[k] * (e - s)));
-        options.onProgress((b + sum / scenario.paths) / batches.length);
-      };
+      const batchProgress = (within: number) => report((BATCHES_SHARE * (b + within)) / batches.length);
       const t0 = performance.now();
-      const chunkLists = await Promise.all(
+      await Promise.all(
         ranges.map(([start, end], k) =>
-          workers[k].run(
-            { type: 'range', jobId: jobId++, scenario, start, end, pairIndices: batch },
-            (fraction) => {
-              done[k] = fraction;
-              report();
-            },
-          ),
+          pool.worker(k).run({ type: 'simulate', jobId: jobId++, scenario, start, end, stores: stores.map(shareStore) }, 'simulated', (fraction) => {
+            done[k] = fraction;
+            let sum = 0;
+            ranges.forEach(([s, e], r) => (sum += done[r] * (e - s)));
+            batchProgress((SIMULATE_SHARE * sum) / scenario.paths);
+          }),
         ),
       );
       const t1 = performance.now();
       timing.simulateMs += t1 - t0;
-      const chunks = chunkLists.flat();
-      for (const pairIndex of batch) {
-        results[pairIndex] = summarisePair(
-          prepared,
-          pairIndex,
-          chunks.filter((c) => c.pairIndex === pairIndex),
-        );
-        // Summaries run on this thread (sorting ~0.4 s per pair at 100,000 paths × 40 years):
-        // give the event loop a turn between pairs so a server hosting the worker keeps answering.
-        await new Promise<void>((resolve) => setImmediate(resolve));
-      }
+      const groups = balance(stores, pool.size, (s) => prepared.pairs[s.pairIndex].years);
+      const replies = await Promise.all(
+        groups.map((group, k) => pool.worker(k).run({ type: 'summarise', jobId: jobId++, scenario, stores: group.map(shareStore) }, 'summarised')),
+      );
+      replies.forEach((reply, k) =>
+        (reply.summaries as SummarisedPair[]).forEach((s, i) => {
+          results[groups[k][i].pairIndex] = s.result;
+          curves[groups[k][i].pairIndex] = s.curve;
+        }),
+      );
       timing.summariseMs += performance.now() - t1;
+      batchProgress(1);
     }
+    const t2 = performance.now();
+    const compared = await compareAll(prepared, pool, results, curves, () => jobId++);
+    timing.compareMs = performance.now() - t2;
+    report(1);
+    return assembleResult(prepared, results, compared);
   } finally {
     if (!options.pool) await pool.close();
   }
-  return assembleResult(prepared, results);
+}
+
+/** Phase 3 on the workers: members shared out, each worker reading the pots it needs from shared memory. */
+async function compareAll(prepared: PreparedScenario, pool: ComputePool, results: PairResult[], curves: CeCurve[], nextId: () => number): Promise<ComparedPair[]> {
+  const { scenario } = prepared;
+  if (scenario.options.length < 2) return [];
+  const members = scenario.members.map((_, m) => m);
+  const groups = balance(members, pool.size, () => 1);
+  const perMember: ComparedPair[][] = new Array(members.length);
+  await Promise.all(
+    groups.map(async (group, k) => {
+      const pairs: Record<number, { pots: SharedArrayBuffer; curve: CeCurve; targetRealPot: number }> = {};
+      for (const m of group) {
+        scenario.options.forEach((_, o) => {
+          const i = pairIndexOf(prepared, o, m);
+          pairs[i] = { pots: results[i].terminalRealPots.buffer as SharedArrayBuffer, curve: curves[i], targetRealPot: results[i].atRetirement.targetRealPot };
+        });
+      }
+      const reply = await pool.worker(k).run({ type: 'compare', jobId: nextId(), scenario, members: group, pairs }, 'compared');
+      reply.compared.forEach((c, i) => (perMember[group[i]] = c));
+    }),
+  );
+  return perMember.flat();
 }

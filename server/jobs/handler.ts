@@ -7,8 +7,9 @@ import type { Logger } from 'pino';
 import { runScenarioThreaded } from '../compute/threads';
 import { log as rootLog } from '../log';
 import { audit } from '../services/audit';
+import { insertPots } from '../services/runPots';
 import { queueSettings } from './queue';
-import { compareResults, storeVariant, type StoredResult } from './result';
+import { compareResults, potRows, storeVariant, type PotRow, type StoredResult } from './result';
 
 export type HandlerOptions = {
   /** Worker threads per run (default KEELSON_RUN_THREADS, else the machine's parallelism). */
@@ -110,12 +111,14 @@ async function computeAndStore(db: Db, run: RunRow, variants: ScenarioInput[], o
   };
 
   let stored: StoredResult;
+  const pots: PotRow[] = [];
   try {
     const threads = opts.threads ?? defaultThreads();
     let sampleKind: 'all' | 'quantiles' = 'all';
     const out = [];
     for (let v = 0; v < variants.length; v++) {
       const result = await runScenarioThreaded(variants[v], { threads, onProgress: (f) => report((v + f) / variants.length) });
+      pots.push(...(await potRows(runId, v === 0 ? 'base' : 'stressed', result)));
       const s = storeVariant(result);
       sampleKind = s.sampleKind;
       out.push(s.variant);
@@ -151,6 +154,7 @@ async function computeAndStore(db: Db, run: RunRow, variants: ScenarioInput[], o
       .where(and(eq(projectionRuns.id, runId), ne(projectionRuns.status, 'done')))
       .returning({ id: projectionRuns.id });
     if (!updated) return 'skipped' as const;
+    await insertPots(tx, pots);
     await audit(tx, null, {
       action: 'run.completed',
       schemeId: run.schemeId,

@@ -3,13 +3,16 @@ import { schemeOf, type ServiceContext } from './context';
 import { and, desc, eq, getTableColumns } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { assumptionSets, funds, illustrativeMembers, projectionRuns, runOptionVersions } from '../../db/schema';
-import { conflict, notFound } from '../errors';
+import { badRequest, conflict, notFound } from '../errors';
 import { enqueueRun, producerFor, queueSettings } from '../jobs/queue';
 import { audit } from './audit';
 import { settingsOf } from './governance';
 import { listOptions } from './options';
 import { MAX_SEED } from '../../schemas/runs';
 import { buildScenario, type ScenarioChoice, type ScenarioSnapshot } from './scenario';
+import { comparisonAtLambda, parseScenario, prepareScenario, type ComparisonAtLambda } from '../../simulation';
+import type { StoredResult } from '../jobs/result';
+import { loadPots, potKey } from './runPots';
 
 export type RunRequest = Omit<ScenarioChoice, 'seed'> & { seed?: number };
 
@@ -156,4 +159,52 @@ export async function runChoices(app: AppContext, schemeId: string) {
     .orderBy(illustrativeMembers.age);
   const fundRows = await app.db.select({ id: funds.id, name: funds.name }).from(funds).where(eq(funds.schemeId, schemeId)).orderBy(funds.name);
   return { assumptionSets: sets, options, members, funds: fundRows };
+}
+
+/**
+ * A finished run's options compared at any λ, exactly, from every stored terminal real pot:
+ * each option × member's certainty-equivalent pot, CE real return and its standard error; every
+ * paired difference between options (CE, median pot, chance of target) with standard errors and
+ * whether it is too close to call; each member's ranking; and the break-even λs (they do not
+ * depend on λ: stored with the run). Runs stored before pots were kept (engine 1) answer 409.
+ */
+export async function runComparison(ctx: AppContext, schemeId: string, runId: string, query: { lambda: number; variant: 'base' | 'stressed' }) {
+  const [r] = await ctx.db.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeId)));
+  if (!r) throw notFound('No such run in this scheme.');
+  if (r.status !== 'done' || !r.result) throw conflict('That run has not finished; comparisons need a finished run.');
+  const snapshot = r.input as ScenarioSnapshot;
+  const stored = r.result as StoredResult;
+  const variant = query.variant === 'base' ? stored.base : stored.stressed;
+  if (!variant) throw badRequest('Some fields are not valid.', [{ path: 'variant', message: 'this run has no stressed variant' }]);
+  const pots = await loadPots(ctx.db, runId, query.variant);
+  if (pots.size === 0) {
+    throw conflict('This run was stored before every path’s pot was kept (engine before 2.0.0). Run it again to compare the options at any λ.');
+  }
+  const scenario = parseScenario(query.variant === 'stressed' ? { ...snapshot.scenario, stress: snapshot.stress } : snapshot.scenario);
+  const prepared = prepareScenario(scenario);
+  const potsOf = (o: number, m: number) => {
+    const p = pots.get(potKey(scenario.options[o].id, scenario.members[m].id));
+    if (!p) throw new Error(`run ${runId} has no stored pots for option ${o} × member ${m}`);
+    return p;
+  };
+  // Member by member, giving the event loop a turn in between (large runs take a while).
+  const parts: ComparisonAtLambda[] = [];
+  for (let m = 0; m < scenario.members.length; m++) {
+    parts.push(comparisonAtLambda(prepared, potsOf, query.lambda, [m]));
+    await new Promise<void>((resolve) => setImmediate(resolve));
+  }
+  return {
+    runId,
+    variant: query.variant,
+    lambda: query.lambda,
+    paths: scenario.paths,
+    antithetic: scenario.antithetic,
+    engineVersion: r.engineVersion,
+    scenarioVersion: scenario.version,
+    conventions: { timing: scenario.timing, contributionBasis: scenario.contributionBasis },
+    pairs: parts.flatMap((p) => p.pairs),
+    differences: parts.flatMap((p) => p.differences),
+    ranking: parts.flatMap((p) => p.ranking),
+    breakEven: variant.result.breakEven.map(({ memberId, optionA, optionB, status, crossings }) => ({ memberId, optionA, optionB, status, crossings: crossings ?? [] })),
+  };
 }

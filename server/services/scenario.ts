@@ -1,7 +1,7 @@
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client';
 import { assumptionSets, defaultOptions, fundAssumptions, funds, illustrativeMembers, optionVersions } from '../../db/schema';
-import { validateScenario, type ScenarioInput, type Stress } from '../../simulation';
+import { FORMAT_TWO_DEFAULTS, validateScenario, type ScenarioInput, type Stress } from '../../simulation';
 import { badRequest } from '../errors';
 
 /** What a trustee chooses for a run; the rest comes from the scheme's stored data. */
@@ -85,8 +85,10 @@ export async function buildScenario(db: DbOrTx, schemeId: string, choice: Scenar
   const options = choice.optionIds.map((id) => optionRows.find((o) => o.id === id)!);
   const members = choice.memberIds.map((id) => memberRows.find((m) => m.id === id)!);
 
+  // New runs use scenario format 2 with its default conventions, recorded in the snapshot.
   const scenario: ScenarioInput = {
-    version: 1,
+    version: 2,
+    ...structuredClone(FORMAT_TWO_DEFAULTS),
     seed: choice.seed,
     paths: choice.paths,
     antithetic: false,

@@ -244,7 +244,7 @@ describe('differences to the baseline', () => {
     const [d] = differencesToBaseline(ranked, 'Steady', (_o, _b, figure) => (figure === 'ce' ? engine : figure === 'median' ? 9_000 : null));
     expect(d.ce).toEqual({ ...engine, value: -6_000 });
     expect(d.median).toEqual({ value: 22_000, standardError: 9_000, tooCloseToCall: false });
-    expect(d.chance.tooCloseToCall).toBeNull();
+    expect(d.chance?.tooCloseToCall).toBeNull();
     expect(differenceSentence(d, 'Steady', 'GBP')).toBe(
       'Spread against Steady: certainty-equivalent pot −£6,000 (within sampling error; about 12,000 paths would separate it), median pot +£22,000, 5th percentile pot −£12,000, chance of reaching the income target +12 percentage points.',
     );

@@ -1,6 +1,10 @@
 import { randomUUID } from 'node:crypto';
 import { assumptionSets, fundAssumptions, funds, illustrativeMembers, projectionRuns } from '../../../db/schema';
 import { insertOption } from '../../helpers/options';
+import { potRows } from '../../../server/jobs/result';
+import { insertPots } from '../../../server/services/runPots';
+import { runScenario } from '../../../simulation';
+import { insertFinishedRun } from './reports';
 import type { Examples, Fixtures } from './types';
 import type { StoredResult } from '../../../server/jobs/result';
 
@@ -86,4 +90,10 @@ export const examples: Examples = {
   },
   'GET /schemes/:schemeId/runs/:runId': async (fx) => ({ params: { schemeId: fx.schemeId, runId: (await finishedRun(fx)).id } }),
   'POST /schemes/:schemeId/runs/:runId/rerun': async (fx) => ({ params: { schemeId: fx.schemeId, runId: (await finishedRun(fx)).id } }),
+  'GET /schemes/:schemeId/runs/:runId/comparison': async (fx) => {
+    // A finished run with its pots stored, as the worker stores them.
+    const { run, input } = await insertFinishedRun(fx.db, fx.schemeId, { paths: 100, tag: fx.nonce });
+    await insertPots(fx.db, await potRows(run.id, 'base', runScenario(input.scenario)));
+    return { params: { schemeId: fx.schemeId, runId: run.id }, query: { lambda: '5' } };
+  },
 };

@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 
 import { checkCorrelationMatrix, cholesky, correlationOf, prepareScenario, parseScenario, pathLogReturns, symmetricEigenvalues } from './engineImports';
+import type { ScenarioInput } from '@/simulation';
 import { baseScenario } from './helpers';
 
 function multiplyLLt(l: number[][]): number[][] {
@@ -65,14 +66,14 @@ describe('correlation matrix checks', () => {
   });
 });
 
-describe('correlated draws', () => {
+describe.each([1, 2])('correlated draws (format %i)', (version) => {
   it('have sample correlations matching the input within sampling error', () => {
     const target = [
       [1, 0.6, -0.3],
       [0.6, 1, 0.2],
       [-0.3, 0.2, 1],
     ];
-    const prepared = prepareScenario(parseScenario(baseScenario({ correlations: target, paths: 1000 })));
+    const prepared = prepareScenario(parseScenario({ ...baseScenario({ correlations: target, paths: 1000 }), version } as ScenarioInput));
     const F = 3;
     const xs: number[][] = [[], [], []];
     for (let p = 0; p < 1000; p++) {

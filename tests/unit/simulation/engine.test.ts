@@ -10,9 +10,9 @@ import {
   prepareScenario,
   resultToJson,
   runScenario,
+  createPairStores,
   simulateRange,
   summarisePair,
-  type PairChunk,
   type ScenarioInput,
 } from './engineImports';
 import { baseScenario, describeCheck } from './helpers';
@@ -21,11 +21,22 @@ function oneFund(expectedReturn: number, volatility: number, annualCharge = 0) {
   return [{ id: 'f', name: 'Only Fund', expectedReturn, volatility, annualCharge }];
 }
 
-describe('projection engine against closed forms', () => {
+/**
+ * Format 1, and format 2 with the conventions these closed forms assume (weights and
+ * contributions at the start of each year); format 2's own conventions have their closed forms
+ * in conventions.test.ts.
+ */
+const FORMATS: [string, Partial<ScenarioInput>][] = [
+  ['format 1', {}],
+  ['format 2', { version: 2, timing: { glideWeights: 'start-of-year', contributions: 'start-of-year' } } as Partial<ScenarioInput>],
+];
+
+describe.each(FORMATS)('projection engine against closed forms (%s)', (_label, format) => {
   it('with zero volatility equals the future value of a growing annuity (start-of-year payments, net of charges)', () => {
     const funds = baseScenario().funds.map((f) => ({ ...f, volatility: 0 }));
     const result = runScenario(
       baseScenario({
+        ...format,
         funds,
         correlations: undefined,
         paths: 8,
@@ -50,6 +61,7 @@ describe('projection engine against closed forms', () => {
     const charge = 0.005;
     const result = runScenario(
       baseScenario({
+        ...format,
         paths,
         inflation: 0,
         funds: oneFund(0.07, 0.15, charge),
@@ -78,7 +90,7 @@ describe('projection engine against closed forms', () => {
   });
 
   it('with contributions and a glide path the mean matches the closed-form expectation', () => {
-    const base = baseScenario({ paths: 6000 });
+    const base = baseScenario({ ...format, paths: 6000 });
     const result = runScenario(base);
     const funds = base.funds;
     const a = [0.1, 0.3, 0.6]; // weights at 0 years to retirement
@@ -103,6 +115,7 @@ describe('projection engine against closed forms', () => {
   it('applies the stress as a fall of the fund in the year that many years before retirement', () => {
     const result = runScenario(
       baseScenario({
+        ...format,
         paths: 4,
         inflation: 0,
         funds: [
@@ -126,9 +139,12 @@ describe('projection engine against closed forms', () => {
   });
 });
 
-describe('random numbers and reproducibility', () => {
+describe.each([
+  ['format 1', {}],
+  ['format 2', { version: 2 }],
+] as [string, Partial<ScenarioInput>][])('random numbers and reproducibility (%s)', (_label, format) => {
   it('uses common random numbers: identical options get identical pots; adding an option changes nothing', () => {
-    const base = baseScenario({ paths: 500 });
+    const base = baseScenario({ ...format, paths: 500 });
     const twin = { ...base.options[0], id: 'twin' };
     const withTwin = runScenario({ ...base, options: [base.options[0], twin] });
     expect(withTwin.results[0].terminalRealPots).toEqual(withTwin.results[2].terminalRealPots);
@@ -138,7 +154,7 @@ describe('random numbers and reproducibility', () => {
   });
 
   it('antithetic pairs see negated normals', () => {
-    const prepared = prepareScenario(parseScenario(baseScenario({ antithetic: true, paths: 10 })));
+    const prepared = prepareScenario(parseScenario(baseScenario({ ...format, antithetic: true, paths: 10 })));
     const x0 = pathLogReturns(prepared, 4);
     const x1 = pathLogReturns(prepared, 5);
     const mu = prepared.mu;
@@ -149,7 +165,7 @@ describe('random numbers and reproducibility', () => {
   it('gives the same result for the same seed and a different one for another seed', () => {
     fc.assert(
       fc.property(fc.integer({ min: -1e9, max: 1e9 }), fc.boolean(), (seed, antithetic) => {
-        const s = baseScenario({ seed, paths: 300, antithetic });
+        const s = baseScenario({ ...format, seed, paths: 300, antithetic });
         const a = JSON.stringify(resultToJson(runScenario(s), { includePots: true }));
         const b = JSON.stringify(resultToJson(runScenario(s), { includePots: true }));
         expect(a === b).toBe(true);
@@ -160,26 +176,27 @@ describe('random numbers and reproducibility', () => {
     );
   });
 
-  it('produces byte-identical chunks and summaries however the paths are split', () => {
+  it('produces byte-identical pots, bands and summaries however the paths are split', () => {
     fc.assert(
       fc.property(
         fc.uniqueArray(fc.integer({ min: 1, max: 699 }), { maxLength: 4 }),
         fc.boolean(),
         (cuts, antithetic) => {
-          const scenario = parseScenario(baseScenario({ paths: 700, antithetic }));
+          const scenario = parseScenario(baseScenario({ ...format, paths: 700, antithetic }));
           const prepared = prepareScenario(scenario);
           const pairs = prepared.pairs.map((p) => p.pairIndex);
-          const whole = simulateRange(prepared, 0, 700, pairs);
+          const whole = createPairStores(prepared, pairs);
+          simulateRange(prepared, 0, 700, whole);
           const bounds = [0, ...[...cuts].sort((x, y) => x - y), 700];
-          const parts: PairChunk[] = [];
-          for (let k = 0; k + 1 < bounds.length; k++) parts.push(...simulateRange(prepared, bounds[k], bounds[k + 1], pairs));
+          const parts = createPairStores(prepared, pairs);
+          // Ranges computed in reverse order, as another thread might.
+          for (let k = bounds.length - 2; k >= 0; k--) simulateRange(prepared, bounds[k], bounds[k + 1], parts);
           for (const pairIndex of pairs) {
-            const own = parts.filter((c) => c.pairIndex === pairIndex).reverse();
-            const joined = new Float64Array(700);
-            for (const c of own) joined.set(c.terminal, c.start);
-            expect(Buffer.from(joined.buffer).equals(Buffer.from(whole[pairIndex].terminal.buffer))).toBe(true);
-            const a = JSON.stringify(resultToJson({ results: [summarisePair(prepared, pairIndex, own)] } as never, { includePots: true }));
-            const b = JSON.stringify(resultToJson({ results: [summarisePair(prepared, pairIndex, [whole[pairIndex]])] } as never, { includePots: true }));
+            const bytes = (a: Float64Array | Float32Array | null) => Buffer.from(a!.buffer);
+            expect(bytes(parts[pairIndex].terminal).equals(bytes(whole[pairIndex].terminal))).toBe(true);
+            expect(bytes(parts[pairIndex].bands).equals(bytes(whole[pairIndex].bands))).toBe(true);
+            const a = JSON.stringify(resultToJson({ results: [summarisePair(prepared, parts[pairIndex]).result] } as never, { includePots: true }));
+            const b = JSON.stringify(resultToJson({ results: [summarisePair(prepared, whole[pairIndex]).result] } as never, { includePots: true }));
             expect(a === b).toBe(true);
           }
         },
@@ -189,9 +206,12 @@ describe('random numbers and reproducibility', () => {
   });
 });
 
-describe('result contents', () => {
+describe.each([
+  ['format 1', {}],
+  ['format 2', { version: 2 }],
+] as [string, Partial<ScenarioInput>][])('result contents (%s)', (_label, format) => {
   it('has consistent bands, target probability and expected shortfall', () => {
-    const s: ScenarioInput = baseScenario({ paths: 1000 });
+    const s: ScenarioInput = baseScenario({ ...format, paths: 1000 });
     const result = runScenario(s);
     expect(result.results).toHaveLength(4);
     for (const r of result.results) {
@@ -211,7 +231,7 @@ describe('result contents', () => {
       const pots = Array.from(r.terminalRealPots).sort((x, y) => x - y);
       const target = r.atRetirement.targetRealPot;
       const reach = pots.filter((x) => x >= target * (1 - 1e-12)).length / pots.length;
-      expect(Math.abs(r.atRetirement.probabilityReachingTarget - reach)).toBeLessThanOrEqual(1 / pots.length);
+      expect(Math.abs(r.atRetirement.probabilityReachingTarget! - reach)).toBeLessThanOrEqual(1 / pots.length);
       const worst = pots.slice(0, Math.ceil(0.05 * pots.length));
       const es = worst.reduce((a, b) => a + b, 0) / worst.length;
       expect(r.atRetirement.expectedShortfall.real).toBeCloseTo(es, 6);

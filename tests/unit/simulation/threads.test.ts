@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 
 import { runScenarioThreaded, splitPaths } from '@/server/compute/threads';
-import { resultToJson, runScenario } from '@/simulation';
+import { resultToJson, runScenario, type ScenarioInput } from '@/simulation';
 
 import { baseScenario } from './helpers';
 
@@ -21,16 +21,16 @@ describe('threaded runner', () => {
     );
   });
 
-  it('gives byte-identical results on 1 and 2 threads and on the calling thread', async () => {
+  it('gives byte-identical results on 1 and 2 threads and on the calling thread, in both formats', async () => {
     await fc.assert(
-      fc.asyncProperty(fc.integer({ min: 0, max: 1e6 }), fc.integer({ min: 300, max: 1500 }), fc.boolean(), async (seed, halfPaths, antithetic) => {
-        const scenario = baseScenario({ seed, paths: 2 * halfPaths + (antithetic ? 0 : seed % 2), antithetic });
+      fc.asyncProperty(fc.integer({ min: 0, max: 1e6 }), fc.integer({ min: 300, max: 1500 }), fc.boolean(), fc.constantFrom(1, 2), async (seed, halfPaths, antithetic, version) => {
+        const scenario = { ...baseScenario({ seed, paths: 2 * halfPaths + (antithetic ? 0 : seed % 2), antithetic }), version } as ScenarioInput;
         const one = asJson(await runScenarioThreaded(scenario, { threads: 1 }));
         const two = asJson(await runScenarioThreaded(scenario, { threads: 2 }));
         expect(one === two).toBe(true);
         expect(asJson(runScenario(scenario)) === two).toBe(true);
       }),
-      { numRuns: 3 },
+      { numRuns: 4 },
     );
   });
 

@@ -1,9 +1,10 @@
 import { readFileSync, writeFileSync } from 'node:fs';
 
-import { resultToJson, runScenario, validateScenario } from './index';
+import { resultToJson, runScenario, validateScenario } from '../simulation';
 
 /**
- * Command line: run a scenario file and print (or write) the result JSON.
+ * Command line: run a scenario file (format 1 or 2, simulation/README.md) and print (or write)
+ * the result JSON. The file handling lives here; the engine in simulation/ does no I/O.
  *
  *   npm run project -- <scenario.json> [--out result.json] [--include-pots]
  *
