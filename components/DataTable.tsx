@@ -23,6 +23,8 @@ type Props<T> = {
   rowTone?: (row: T) => 'highlight' | 'muted' | undefined;
   empty?: string;
   testID?: string;
+  /** Row height when cells hold more than two lines (default 48). */
+  rowHeight?: number;
 };
 
 const ROW_HEIGHT = 48;
@@ -32,7 +34,7 @@ const figure: TextStyle = { ...type.figure, fontVariant: ['tabular-nums'] };
  * A table that shows in full on wide screens and, on phones, scrolls sideways with its
  * first column pinned. Rows have a fixed height so the pinned column stays level.
  */
-export function DataTable<T>({ columns, rows, rowKey, onRowPress, label, rowTone, empty = 'Nothing yet.', testID }: Props<T>) {
+export function DataTable<T>({ columns, rows, rowKey, onRowPress, label, rowTone, empty = 'Nothing yet.', testID, rowHeight = ROW_HEIGHT }: Props<T>) {
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
   const [first, ...rest] = columns;
@@ -46,7 +48,7 @@ export function DataTable<T>({ columns, rows, rowKey, onRowPress, label, rowTone
         width: flex ? undefined : (c.width ?? 110),
         flex: flex ? 1 : undefined,
         minWidth: flex ? (c.width ?? 90) : undefined,
-        height: ROW_HEIGHT,
+        height: header ? ROW_HEIGHT : rowHeight,
         justifyContent: 'center',
         paddingHorizontal: space.sm,
         alignItems: c.align === 'right' ? 'flex-end' : 'flex-start',

@@ -1,70 +1,70 @@
-import { certaintyEquivalentPot } from '../simulation';
 import { BOARD_LAMBDA_RANGE } from '../constants/riskAversion';
 import { lambda as lambdaText } from './numbers';
 
 /**
- * Where two options swap places as the board's λ changes, in one wording for every output.
- * The engine reports break-even λ per pair of options and member; a pair can cross once, never,
- * several times, or be identical on every path. Which option leads between crossings is read
- * from the stored samples at the middle of each interval.
+ * Where two options swap places as the board's λ changes, as one small table for every output
+ * (screen, board report, decision record): one row per member × pair of options, giving none,
+ * one or several break-even λs, each with its 95% interval (the engine's delta-method interval,
+ * simulation/breakEven.ts). Which option is higher at the chosen λ is in the ranking itself.
  */
 
-/** The crossings of one pair, in the board's range, ascending. */
-export type Crossings = { status: 'identical' | 'none' | 'crossings'; lambdas: number[] };
-
-/**
- * Reads an engine break-even entry: today's form gives one `lambda` with a status; a list of
- * crossings (`crossings: { lambda }[]`, or plain `lambdas`) is accepted as well, so an engine
- * that reports every crossing needs no change here.
- */
-export function crossingsOf(
-  b: { status: string; lambda?: number | null; lambdas?: readonly number[] | null; crossings?: readonly { lambda: number }[] | null },
-  range: readonly [number, number] = BOARD_LAMBDA_RANGE,
-): Crossings {
-  if (b.status === 'identical') return { status: 'identical', lambdas: [] };
-  const all = b.crossings?.map((c) => c.lambda) ?? b.lambdas ?? (b.lambda !== null && b.lambda !== undefined ? [b.lambda] : []);
-  const lambdas = [...all].filter((l) => Number.isFinite(l) && l >= range[0] && l <= range[1]).sort((x, y) => x - y);
-  return lambdas.length ? { status: 'crossings', lambdas } : { status: 'none', lambdas: [] };
-}
-
-export type BreakEvenPair = {
-  /** The illustrative member, named at the start of the sentence (omit for a sentence about one member on screen). */
-  memberLabel?: string | null;
-  a: { name: string; pots: ArrayLike<number> };
-  b: { name: string; pots: ArrayLike<number> };
-  crossings: Crossings;
-  /** The λ the board chose. */
-  lambda: number;
-  /** Who leads at the chosen λ, when the caller already knows it (the ranking's own order); else read from the samples. */
-  leaderAtLambda?: 'a' | 'b';
-  range?: readonly [number, number];
+/** One engine break-even entry: engine 2 lists every crossing; engine 1 stored only its first `lambda`. */
+export type BreakEvenEntry = {
+  memberId: string;
+  optionA: string;
+  optionB: string;
+  status: string;
+  lambda?: number | null;
+  crossings?: readonly { lambda: number; interval: readonly [number, number] | null; favouredAbove?: 'A' | 'B' }[] | null;
 };
 
-/**
- * The sentence, e.g. "For Member aged 45, Cautious glide ranks above Long-horizon growth when
- * λ is below 2.41; from 2.41, Long-horizon growth ranks higher. At the chosen λ = 2,
- * Cautious glide ranks higher." "Ranks higher" means a higher certainty-equivalent pot.
- */
-export function breakEvenSentence(p: BreakEvenPair): string {
-  const range = p.range ?? BOARD_LAMBDA_RANGE;
-  const prefix = p.memberLabel ? `For ${p.memberLabel}, ` : '';
-  const A = p.a.name;
-  const B = p.b.name;
-  if (p.crossings.status === 'identical') return `${prefix}${A} and ${B} give the same pot on every path, so neither ranks above the other at any λ.`;
-  const leads = (at: number): 'a' | 'b' => (certaintyEquivalentPot(p.a.pots, at) >= certaintyEquivalentPot(p.b.pots, at) ? 'a' : 'b');
-  const name = (w: 'a' | 'b') => (w === 'a' ? A : B);
-  const other = (w: 'a' | 'b') => (w === 'a' ? B : A);
-  const atChosen = p.leaderAtLambda ?? leads(p.lambda);
-  if (p.crossings.status === 'none') {
-    return `${prefix}${name(atChosen)} ranks above ${other(atChosen)} at every λ from ${lambdaText(range[0])} to ${lambdaText(range[1])}.`;
-  }
-  const cuts = p.crossings.lambdas;
-  const edges = [range[0], ...cuts, range[1]];
-  const leaders = edges.slice(0, -1).map((lo, i) => leads((lo + edges[i + 1]) / 2));
-  const parts = [`${prefix}${name(leaders[0])} ranks above ${other(leaders[0])} when λ is below ${lambdaText(cuts[0])}`];
-  for (let i = 1; i < leaders.length; i++) {
-    const upTo = i < cuts.length ? ` to ${lambdaText(cuts[i])}` : '';
-    parts.push(`from ${lambdaText(cuts[i - 1])}${upTo}, ${name(leaders[i])} ranks higher`);
-  }
-  return `${parts.join('; ')}. At the chosen λ = ${lambdaText(p.lambda)}, ${name(atChosen)} ranks higher.`;
+export type BreakEvenRow = {
+  memberId: string;
+  member: string;
+  /** "Option A and Option B". */
+  options: string;
+  kind: 'none' | 'identical' | 'crossings';
+  /** The λs in the board's range, ascending (exact). */
+  lambdas: number[];
+  /** The cell as shown: "none from −5 to 50", "1.57 (1.4 to 1.74)", or several separated by "; ". */
+  text: string;
+};
+
+/** Headings of the break-even table. */
+export const BREAK_EVEN_COLUMNS = [
+  { key: 'member', label: 'Member' },
+  { key: 'options', label: 'Options' },
+  { key: 'text', label: 'Break-even λ (95% interval)' },
+] as const;
+
+/** What the table means, printed under it. */
+export function breakEvenNote(range: readonly [number, number] = BOARD_LAMBDA_RANGE): string {
+  return `A break-even λ is a risk aversion at which the two options' certainty-equivalent pots are equal, so their order swaps there; every one between ${lambdaText(range[0])} and ${lambdaText(range[1])} is listed, with its 95% interval from the Monte Carlo error. "None" means the order of the pair is the same at every λ in that range.`;
+}
+
+/** One crossing: "1.57 (1.4 to 1.74)", or "1.57" when its interval cannot be estimated. */
+export function crossingText(c: { lambda: number; interval: readonly [number, number] | null }): string {
+  return c.interval ? `${lambdaText(c.lambda)} (${lambdaText(c.interval[0])} to ${lambdaText(c.interval[1])})` : lambdaText(c.lambda);
+}
+
+/** The cell of one pair: none, identical, one crossing or several. */
+export function breakEvenCell(b: BreakEvenEntry, range: readonly [number, number] = BOARD_LAMBDA_RANGE): { kind: BreakEvenRow['kind']; lambdas: number[]; text: string } {
+  if (b.status === 'identical') return { kind: 'identical', lambdas: [], text: 'same pot on every path' };
+  const listed = b.crossings ?? (b.lambda !== null && b.lambda !== undefined ? [{ lambda: b.lambda, interval: null }] : []);
+  const inRange = listed.filter((c) => Number.isFinite(c.lambda) && c.lambda >= range[0] && c.lambda <= range[1]).sort((x, y) => x.lambda - y.lambda);
+  if (!inRange.length) return { kind: 'none', lambdas: [], text: `none from ${lambdaText(range[0])} to ${lambdaText(range[1])}` };
+  return { kind: 'crossings', lambdas: inRange.map((c) => c.lambda), text: inRange.map(crossingText).join('; ') };
+}
+
+type Names = Map<string, string> | Record<string, string>;
+const nameOf = (names: Names, id: string) => (names instanceof Map ? names.get(id) : names[id]) ?? id;
+
+/** The break-even table's rows, member by member in the engine's order, pairs in option order. */
+export function breakEvenRows(entries: readonly BreakEvenEntry[], optionNames: Names, memberLabels: Names, range: readonly [number, number] = BOARD_LAMBDA_RANGE): BreakEvenRow[] {
+  return entries.map((b) => ({
+    memberId: b.memberId,
+    member: nameOf(memberLabels, b.memberId),
+    options: `${nameOf(optionNames, b.optionA)} and ${nameOf(optionNames, b.optionB)}`,
+    ...breakEvenCell(b, range),
+  }));
 }

@@ -15,3 +15,4 @@ export * from './breakEven';
 export * from './comparison';
 export * from './charts';
 export * from './statement';
+export * from './report';

@@ -46,6 +46,12 @@ export function percentagePoints(difference: number | null | undefined, context:
   return `${difference > 0 && Number(s) !== 0 ? '+' : ''}${s} ${unit}`;
 }
 
+/** The standard error of a difference of chances, without sign: 0.0112 → "1.1 percentage points" (one decimal, as chanceError). */
+export function pointsError(se: number | null | undefined): string {
+  if (se === null || se === undefined || !Number.isFinite(se)) return '—';
+  return percentagePoints(Math.abs(se), 'chanceError').replace(/^\+/, '');
+}
+
 /** Risk aversion λ: at most two decimals, trailing zeros dropped (2, 1.5, 1.56, −0.5). */
 export function lambda(value: number): string {
   return fixed(value, 2, true);

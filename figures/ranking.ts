@@ -1,22 +1,28 @@
 import type { PairFigures, StoredVariant } from '../server/jobs/result';
-import { ceAnnualReturn, certaintyEquivalentPot, memberTimeline, type ScenarioInput } from '../simulation';
-import { sampleVariance } from '../simulation/statistics';
+import { separation, type OptionComparison, type PairAtLambda } from '../simulation';
 
 /**
- * Options ranked at a chosen λ, from a stored run: the same computation for the comparison
- * screen (in the browser, so moving λ re-ranks without simulating again), the board report and
- * its CSV. At the run's own λ the engine's full-sample certainty equivalent is used; at any other
- * λ the stored sample of terminal real pots (every path, or 2,000 quantiles for larger runs).
+ * Options ranked at a chosen λ, from a stored run and its exact figures at that λ: the same
+ * computation for the comparison screen, the board report and its CSV. The certainty
+ * equivalents, their standard errors and the paired differences come from every path's pot —
+ * the comparison endpoint (`GET …/runs/:runId/comparison?lambda=`, runComparison) — or, at the
+ * run's own λ, from the engine's stored full-sample figures (storedFigures). Nothing here
+ * approximates from a sample of quantiles.
  */
+
+/**
+ * The exact figures of one variant at one λ: each option × member's certainty equivalent with
+ * its standard error, and every paired difference between options (CE, median pot, chance of
+ * target) with its standard error and whether it is too close to call.
+ */
+export type ExactFigures = { lambda: number; paths: number; pairs: readonly PairAtLambda[]; differences: readonly OptionComparison[] };
 
 /** A certainty-equivalent pot with its Monte Carlo standard error and its constant annual real return. */
 export type CeFigure = {
   pot: number;
-  /** Delta-method standard error (see ceStandardError); NaN when it cannot be estimated. */
-  standardError: number;
+  /** Antithetic-aware standard error (influence function); null when it cannot be estimated. */
+  standardError: number | null;
   annualReturn: number | null;
-  /** 'run': the engine's own figure from every path; 'sample': from the stored sample. */
-  basis: 'run' | 'sample';
 };
 
 export type RankedOption = {
@@ -26,70 +32,72 @@ export type RankedOption = {
   name: string;
   pair: PairFigures;
   ce: CeFigure;
+  /** Certainty-equivalent pot minus that of the next option down, paired (null for the last). */
+  toNext: Difference | null;
 };
 
 type Names = Record<string, string> | Map<string, string>;
 const nameOf = (names: Names, id: string) => (names instanceof Map ? names.get(id) : names[id]) ?? id;
 
-/** The stored sample of terminal real pots for one option × member. */
-export function sampleOf(variant: StoredVariant, optionId: string, memberId: string): number[] {
-  const s = variant.samples.find((x) => x.optionId === optionId && x.memberId === memberId);
-  if (!s) throw new Error(`the run stores no sample for option ${optionId} × member ${memberId}`);
-  return s.realPots;
+/**
+ * The figures a run stored at its own λ, computed by the engine from every path: for runs whose
+ * pots were not kept (engine before 2.0.0), and the same numbers the comparison endpoint gives
+ * at that λ. Runs stored before paired comparisons have no differences (standard errors unknown).
+ */
+export function storedFigures(variant: StoredVariant): ExactFigures {
+  const r = variant.result;
+  return {
+    lambda: r.riskAversion,
+    paths: r.paths,
+    pairs: r.results.map((p) => ({
+      optionId: p.optionId,
+      memberId: p.memberId,
+      certaintyEquivalent: {
+        realPot: p.atRetirement.certaintyEquivalent.realPot,
+        realAnnualReturn: p.atRetirement.certaintyEquivalent.realAnnualReturn,
+        standardError: p.atRetirement.uncertainty?.certaintyEquivalent.realPot ?? null,
+      },
+    })),
+    differences: r.comparisons ?? [],
+  };
 }
+
+const FIGURE_KEYS = { ce: 'certaintyEquivalent', median: 'medianPot', chance: 'probabilityReachingTarget' } as const;
 
 /**
- * Monte Carlo standard error of the certainty-equivalent pot by the delta method:
- * CE = g(m) with m = mean(W^(1−γ)) and g(m) = m^(1/(1−γ)), so SE(CE)/CE ≈ SE(m)/(|1−γ|·m);
- * for γ = 1, CE = exp(mean ln W) and SE(CE)/CE ≈ sd(ln W)/√n. γ = 2λ (simulation/utility.ts).
- * The spread comes from the stored sample; n is the run's number of paths. Computed in a
- * shifted log scale so that large γ does not overflow. Zero pots give no estimate (NaN).
+ * The paired difference option − other for one member, oriented as asked (the engine stores
+ * each pair once, A − B); null when the figures have none (or no target, for the chance).
  */
-export function ceStandardError(sample: ArrayLike<number>, lambda: number, paths: number): number {
-  const n = sample.length;
-  if (n < 2) return Number.NaN;
-  const e = 1 - 2 * lambda;
-  const logs = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    if (!(sample[i] > 0)) return Number.NaN;
-    logs[i] = Math.log(sample[i]);
-  }
-  const ce = certaintyEquivalentPot(sample, lambda);
-  if (Math.abs(e) < 1e-9) return (ce * Math.sqrt(sampleVariance(logs))) / Math.sqrt(paths);
-  let mx = -Infinity;
-  for (let i = 0; i < n; i++) mx = Math.max(mx, e * logs[i]);
-  const u = new Float64Array(n);
-  let m = 0;
-  for (let i = 0; i < n; i++) {
-    u[i] = Math.exp(e * logs[i] - mx);
-    m += u[i];
-  }
-  m /= n;
-  return (ce * Math.sqrt(sampleVariance(u))) / (Math.sqrt(paths) * Math.abs(e) * m);
+export function pairedDifference(ex: ExactFigures, memberId: string, optionId: string, otherId: string, figure: keyof typeof FIGURE_KEYS): Difference | null {
+  const c = ex.differences.find((x) => x.memberId === memberId && ((x.optionA === optionId && x.optionB === otherId) || (x.optionA === otherId && x.optionB === optionId)));
+  const d = c?.[FIGURE_KEYS[figure]];
+  if (!c || !d) return null;
+  const value = c.optionA === optionId ? d.value : -d.value;
+  // Equal figures (options identical on every path) are never a lead, whatever the standard error (0 then).
+  return { value, standardError: d.standardError, tooCloseToCall: value === 0 ? true : d.tooCloseToCall, pathsToSeparate: d.pathsToSeparate };
 }
 
-/** The certainty-equivalent figures of one option × member at λ. */
-export function ceAt(variant: StoredVariant, scenario: ScenarioInput, pair: PairFigures, lambda: number): CeFigure {
-  const sample = sampleOf(variant, pair.optionId, pair.memberId);
-  const standardError = ceStandardError(sample, lambda, variant.result.paths);
-  if (lambda === variant.result.riskAversion) {
-    const own = pair.atRetirement.certaintyEquivalent;
-    return { pot: own.realPot, standardError, annualReturn: own.realAnnualReturn, basis: 'run' };
-  }
-  const pot = certaintyEquivalentPot(sample, lambda);
-  const member = scenario.members.find((m) => m.id === pair.memberId);
-  if (!member) throw new Error(`the run has no member ${pair.memberId}`);
-  const t = memberTimeline(member, scenario.inflation);
-  return { pot, standardError, annualReturn: ceAnnualReturn(pot, { initialPot: t.initialPot, contributions: t.realContributions }), basis: 'sample' };
-}
-
-/** Each option's figures for one member at λ, highest certainty-equivalent pot first. */
-export function rankAt(variant: StoredVariant, scenario: ScenarioInput, memberId: string, lambda: number, names: Names): RankedOption[] {
-  return variant.result.results
+/** Each option's figures for one member at the figures' λ, highest certainty-equivalent pot first. */
+export function rankAt(variant: StoredVariant, ex: ExactFigures, memberId: string, names: Names): RankedOption[] {
+  const rows = variant.result.results
     .filter((p) => p.memberId === memberId)
-    .map((pair) => ({ rank: 0, optionId: pair.optionId, name: nameOf(names, pair.optionId), pair, ce: ceAt(variant, scenario, pair, lambda) }))
-    .sort((a, b) => b.ce.pot - a.ce.pot)
-    .map((r, i) => ({ ...r, rank: i + 1 }));
+    .map((pair) => {
+      const own = ex.pairs.find((x) => x.optionId === pair.optionId && x.memberId === memberId);
+      if (!own) throw new Error(`the comparison has no figures for option ${pair.optionId} × member ${memberId}`);
+      const c = own.certaintyEquivalent;
+      return { optionId: pair.optionId, name: nameOf(names, pair.optionId), pair, ce: { pot: c.realPot, standardError: c.standardError, annualReturn: c.realAnnualReturn } };
+    })
+    .sort((a, b) => b.ce.pot - a.ce.pot);
+  return rows.map((r, i) => {
+    const next = rows[i + 1];
+    const toNext = next ? (pairedDifference(ex, memberId, r.optionId, next.optionId, 'ce') ?? difference(r.ce.pot - next.ce.pot)) : null;
+    return { ...r, rank: i + 1, toNext };
+  });
+}
+
+/** The paired standard errors of differences to a baseline, from exact figures (for differencesToBaseline). */
+export function exactErrors(ex: ExactFigures, memberId: string): PairedErrors {
+  return (optionId, baselineId, figure) => (figure === 'p5' ? null : pairedDifference(ex, memberId, optionId, baselineId, figure));
 }
 
 // ---- Differences to a baseline option --------------------------------------------------
@@ -109,9 +117,16 @@ export const SEPARATION_Z = 2;
  */
 export type Difference = { value: number; standardError: number | null; tooCloseToCall: boolean | null; pathsToSeparate?: number | null };
 
-export function difference(value: number, standardError: number | null = null): Difference {
+/**
+ * A difference with its standard error; given the number of paths, also roughly how many paths
+ * would separate it when it is too close to call (the engine's rule, `separation`:
+ * n·(2·SE/|d|)², rounded up to two significant figures, since the standard error shrinks as 1/√n).
+ */
+export function difference(value: number, standardError: number | null = null, paths?: number): Difference {
   const se = standardError !== null && Number.isFinite(standardError) ? standardError : null;
-  return { value, standardError: se, tooCloseToCall: se === null ? null : Math.abs(value) < SEPARATION_Z * se };
+  if (se === null) return { value, standardError: null, tooCloseToCall: null };
+  if (paths) return { value, standardError: se, ...separation(value, se, paths) };
+  return { value, standardError: se, tooCloseToCall: Math.abs(value) < SEPARATION_Z * se };
 }
 
 export type OptionDifference = {

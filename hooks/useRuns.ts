@@ -2,9 +2,9 @@ import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tansta
 import type { Wire } from '@/types/wire';
 import type { PairFigures as ServerPairFigures, StoredResult, StoredVariant as ServerStoredVariant } from '@/server/jobs/result';
 import type { runForRole } from '@/server/services/runAccess';
-import type { getRun, runChoices, summary } from '@/server/services/runs';
+import type { getRun, runChoices, runComparison, summary } from '@/server/services/runs';
 import type { RunRequestBody } from '@/schemas/runs';
-import { api } from './api';
+import { api, ApiError } from './api';
 
 export type RunSummary = Wire<ReturnType<typeof summary>>;
 export type RunStatus = RunSummary['status'];
@@ -15,12 +15,15 @@ export type RunResult = Wire<StoredResult>;
 export type RunDetail = Wire<ReturnType<typeof runForRole<Awaited<ReturnType<typeof getRun>>>>>;
 export type RunChoices = Wire<Awaited<ReturnType<typeof runChoices>>>;
 export type RunRequest = RunRequestBody;
+/** A run's exact figures at one λ (every path's pot): certainty equivalents, paired differences, ranking, break-even λs. */
+export type RunComparison = Wire<Awaited<ReturnType<typeof runComparison>>>;
 
 export const runKeys = {
   all: (schemeId: string) => ['schemes', schemeId, 'runs'] as const,
   list: (schemeId: string) => [...runKeys.all(schemeId), 'list'] as const,
   detail: (schemeId: string, runId: string) => [...runKeys.all(schemeId), 'detail', runId] as const,
   choices: (schemeId: string) => [...runKeys.all(schemeId), 'choices'] as const,
+  comparison: (schemeId: string, runId: string, lambda: number, variant: 'base' | 'stressed') => [...runKeys.detail(schemeId, runId), 'comparison', variant, lambda] as const,
 };
 
 const active = (s?: RunStatus) => s === 'queued' || s === 'running';
@@ -71,5 +74,21 @@ export function useRerun(schemeId: string | undefined) {
   return useMutation({
     mutationFn: (runId: string) => api<RunSummary>(`/schemes/${schemeId}/runs/${runId}/rerun`, { method: 'POST' }),
     onSuccess: () => qc.invalidateQueries({ queryKey: runKeys.list(schemeId!) }),
+  });
+}
+
+/**
+ * A finished run's exact comparison at λ, from the server (every path's pot). Keeps showing the
+ * previous λ's figures while the next are fetched, so the table does not flash as λ moves.
+ * Runs stored before pots were kept answer 409 (no retry): the screen then shows the run's own λ.
+ */
+export function useRunComparison(schemeId: string | undefined, runId: string | undefined, lambda: number, variant: 'base' | 'stressed', enabled = true) {
+  return useQuery({
+    queryKey: runKeys.comparison(schemeId ?? '', runId ?? '', lambda, variant),
+    queryFn: () => api<RunComparison>(`/schemes/${schemeId}/runs/${runId}/comparison?lambda=${encodeURIComponent(String(lambda))}&variant=${variant}`),
+    enabled: !!schemeId && !!runId && enabled,
+    placeholderData: keepPreviousData,
+    staleTime: Infinity,
+    retry: (failures, error) => failures < 2 && !(error instanceof ApiError && error.status < 500),
   });
 }

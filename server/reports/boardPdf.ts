@@ -1,7 +1,7 @@
 import { weightsAt } from '../../simulation';
 import { percentileKey } from '../../simulation/statistics';
 import { optionStyle } from '../../constants/theme';
-import { count, DRAFT_TEXT, fanChartSummary, glideMixText, moneyRoundingNote, percentileLabel } from '../../figures';
+import { BREAK_EVEN_COLUMNS, breakEvenNote, count, differenceColumns, DRAFT_TEXT, fanChartSummary, glideMixText, LEAD_COLUMN_LABEL, moneyRoundingNote, NOT_SEPARATED_TEXT, percentileLabel, STRESS_COLUMNS, type DifferenceCell } from '../../figures';
 import type { ReportContent, RunForReport } from './content';
 import { contentWidth, factRows, fanChart, finishPages, glidePathChart, heading, MARGIN, newDocument, noticeBox, optionSwatch, paragraph, PDF_COLORS, table, toBuffer, type Column } from './draw';
 
@@ -26,7 +26,12 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
   doc.font('bold').fontSize(26).fillColor(PDF_COLORS.ink).text(content.title, { width: contentWidth(doc) });
   doc.moveDown(0.4);
   doc.font('regular').fontSize(14).fillColor(PDF_COLORS.muted).text(content.schemeName, { width: contentWidth(doc) });
-  doc.moveDown(2);
+  doc.moveDown(1);
+  if (content.summary) summaryPage(doc, content);
+
+  // What the report is made from.
+  if (content.summary) doc.addPage();
+  heading(doc, 'This report');
   const set = content.assumptionSet;
   const facts: [string, string][] = [
     ['Report date', content.createdOn],
@@ -139,19 +144,40 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
   for (const memberId of memberIds) {
     const rows = content.comparison.filter((r) => r.memberId === memberId);
     paragraph(doc, rows[0].memberLabel, { font: 'semibold', size: 11 });
+    const lead = (r: (typeof rows)[number]) => (r.lead ? [r.lead.text, r.lead.standardError, r.lead.mark].filter(Boolean).join('\n') : '—');
+    const [ceColumn, ...otherColumns] = content.columns;
     table(
       doc,
-      [{ header: 'Rank and option', width: 120 }, ...content.columns.map((c): Column => ({ header: c.label, width: 62, align: 'right' }))],
-      rows.map((r) => [`${r.rank}. ${r.optionName}`, ...content.columns.map((c) => cell(r, c.key))]),
+      [
+        { header: 'Rank and option', width: 110 },
+        { header: ceColumn.label, width: 62, align: 'right' },
+        ...(content.ranking ? [{ header: LEAD_COLUMN_LABEL, width: 70, align: 'right' } as Column] : []),
+        ...otherColumns.map((c): Column => ({ header: c.label, width: 58, align: 'right' })),
+      ],
+      rows.map((r) => [`${r.rank}. ${r.optionName}`, cell(r, ceColumn.key), ...(content.ranking ? [lead(r)] : []), ...otherColumns.map((c) => cell(r, c.key))]),
       { size: 7.5 },
     );
+    const ranking = content.ranking?.find((x) => x.memberId === memberId);
+    if (ranking?.lead) paragraph(doc, ranking.lead, { size: 9, font: 'semibold' });
+    for (const t of ranking?.tooClose ?? []) paragraph(doc, t, { size: 9 });
     table(
       doc,
       [{ header: 'Option', width: 130 }, ...ps.map((p): Column => ({ header: percentileLabel(p), width: 52, align: 'right' }))],
       rows.map((r) => [r.optionName, ...ps.map((p) => r.display.percentilesReal[percentileKey(p)])]),
     );
-    const diffs = content.differences?.find((d) => d.memberId === memberId)?.sentences ?? [];
-    for (const d of diffs) paragraph(doc, d, { size: 9 });
+    const dt = content.differenceTables?.find((d) => d.memberId === memberId);
+    if (dt) {
+      const [option, ...figs] = differenceColumns(dt.baselineName);
+      const shown = (c: DifferenceCell) => [c.text, c.standardError, c.tooCloseToCall ? NOT_SEPARATED_TEXT : null].filter(Boolean).join('\n');
+      table(
+        doc,
+        [{ header: option.label, width: 150 }, ...figs.map((c): Column => ({ header: c.label, width: 115, align: 'right' }))],
+        dt.rows.map((r) => [r.option, shown(r.ce), shown(r.median), shown(r.chance)]),
+        { size: 8 },
+      );
+    } else {
+      for (const d of content.differences?.find((x) => x.memberId === memberId)?.sentences ?? []) paragraph(doc, d, { size: 9 });
+    }
   }
   paragraph(doc, 'How each option is marked in the charts', { font: 'semibold', size: 10 });
   for (const o of content.options) {
@@ -161,9 +187,34 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
     doc.moveDown(0.2);
   }
   doc.x = MARGIN;
-  if (content.breakEven.length) {
+  if (content.breakEvenTable?.length) {
+    paragraph(doc, 'Where the board’s risk appetite changes the order', { font: 'semibold', size: 11 });
+    table(
+      doc,
+      BREAK_EVEN_COLUMNS.map((c): Column => ({ header: c.label, width: c.key === 'text' ? 215 : 140 })),
+      content.breakEvenTable.map((r) => BREAK_EVEN_COLUMNS.map((c) => r[c.key])),
+      { size: 8.5 },
+    );
+    paragraph(doc, breakEvenNote(), { size: 8.5, color: PDF_COLORS.muted });
+  } else if (content.breakEven.length) {
     paragraph(doc, 'Where the board’s risk appetite changes the choice', { font: 'semibold', size: 11 });
     for (const s of content.breakEven) paragraph(doc, s);
+  }
+
+  // The stressed variant, beside the base figures.
+  if (content.stressed) {
+    heading(doc, 'Under stress');
+    paragraph(doc, `The same paths with ${content.stressed.description}; figures at λ = ${content.lambdaDisplay}, each without and with the stress.`, { size: 9, color: PDF_COLORS.muted });
+    for (const m of content.stressed.members) {
+      paragraph(doc, m.memberLabel, { font: 'semibold', size: 11 });
+      table(
+        doc,
+        STRESS_COLUMNS.map((c): Column => ({ header: c.label, width: c.key === 'option' ? 110 : 68, align: c.key === 'option' ? 'left' : 'right' })),
+        m.rows.map((r) => STRESS_COLUMNS.map((c) => r[c.key])),
+        { size: 7.5 },
+      );
+      if (m.lead) paragraph(doc, m.lead, { size: 9 });
+    }
   }
 
   // Monte Carlo details.
@@ -197,6 +248,24 @@ export async function renderBoardReport(content: ReportContent, run: RunForRepor
 
   finishPages(doc, `${content.schemeName} · ${content.title} · run ${content.runId.slice(0, 8)}${content.draft ? ' · DRAFT' : ''}`, content.draft);
   return toBuffer(doc);
+}
+
+/** The first page: the question, the options, the baseline, key figures with their uncertainty, stress, decision and cautions. */
+function summaryPage(doc: Parameters<typeof heading>[0], content: ReportContent) {
+  const sm = content.summary!;
+  heading(doc, 'Summary');
+  paragraph(doc, sm.question);
+  paragraph(doc, `Options: ${sm.options.join('; ')}.`, { size: 9.5 });
+  paragraph(doc, sm.baseline, { size: 9.5 });
+  paragraph(doc, 'Key figures', { font: 'semibold', size: 11 });
+  for (const k of sm.keyFigures) paragraph(doc, k, { size: 9.5 });
+  if (sm.stress) {
+    paragraph(doc, `Under stress: ${sm.stress.description}`, { font: 'semibold', size: 11 });
+    for (const k of sm.stress.sentences) paragraph(doc, k, { size: 9.5 });
+  }
+  paragraph(doc, 'Decision', { font: 'semibold', size: 11 });
+  paragraph(doc, sm.decision, { size: 9.5 });
+  noticeBox(doc, 'Main cautions', [content.caution, ...sm.cautions], content.draft ? 'danger' : 'caution');
 }
 
 /**

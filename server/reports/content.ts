@@ -4,25 +4,42 @@ import type { StoredResult } from '../jobs/result';
 import {
   CAUTION_TEXT,
   DRAFT_TEXT,
+  STANDARD_ERRORS_TEXT,
+  baselineFigureSentence,
   baselineOf,
   baselineSentence,
-  breakEvenSentence,
+  breakEvenRows,
+  ceBasisText,
   comparisonCells,
   comparisonColumns,
   count,
-  crossingsOf,
   date,
   decimal,
+  decisionSummary,
+  differenceRows,
   differenceSentence,
   differencesToBaseline,
+  exactErrors,
   lambda as lambdaText,
+  leadCell,
+  leadSentence,
   money,
   percent,
   pinFirst,
   rankAt,
-  sampleOf,
+  reportQuestion,
+  stressCells,
+  stressDescription,
+  stressSentence,
+  summaryCautions,
+  tooCloseLines,
+  type BreakEvenRow,
   type ComparisonColumn,
   type ComparisonKey,
+  type DifferenceCell,
+  type ExactFigures,
+  type RankedOption,
+  type StressKey,
 } from '../../figures';
 
 /**
@@ -44,6 +61,21 @@ export type ComparisonRow = {
   /** "± …" (one Monte Carlo standard error) for the figures that have one, and their exact values. */
   standardErrors: Partial<Record<ComparisonKey, string>>;
   exactStandardErrors: Partial<Record<ComparisonKey, number>>;
+  /** Certainty-equivalent lead over the next-ranked option, and the too-close mark (absent from older reports). */
+  lead?: { text: string; standardError: string | null; mark: string | null } | null;
+};
+
+/** The first page: what the board is asked, and the answer's key figures with their uncertainty. */
+export type ReportSummary = {
+  question: string;
+  options: string[];
+  baseline: string;
+  /** Per member: the baseline's figures, then whether the top option is separated from the next. */
+  keyFigures: string[];
+  /** The stress and its effect per member; null when the run had no stress. */
+  stress: { description: string; sentences: string[] } | null;
+  decision: string;
+  cautions: string[];
 };
 
 export type ReportContent = {
@@ -58,8 +90,18 @@ export type ReportContent = {
   assumptionSet: { version: number; status: string; setAt: string; approvedOn: string | null; approvedBy: string | null };
   lambda: number;
   lambdaDisplay: string;
-  /** How the certainty equivalents were computed at this λ. */
-  ceBasis: 'run' | 'sample';
+  /** How the certainty equivalents were computed at this λ ('sample': reports made before figures were exact at every λ). */
+  ceBasis: 'run' | 'sample' | 'exact';
+  /** Absent from reports made before the summary page. */
+  summary?: ReportSummary;
+  /** Per member: whether the top option is separated, and which ranked neighbours are too close to call. */
+  ranking?: { memberId: string; memberLabel: string; lead: string | null; tooClose: string[] }[];
+  /** Per member, each option against the baseline as a table: CE, median and chance, each ± its standard error. */
+  differenceTables?: { memberId: string; memberLabel: string; baselineName: string; rows: { optionId: string; option: string; ce: DifferenceCell; median: DifferenceCell; chance: DifferenceCell }[] }[];
+  /** Break-even λ, one row per member × pair of options (older reports have sentences in `breakEven`). */
+  breakEvenTable?: BreakEvenRow[];
+  /** The stressed figures beside the base ones, when the run had a stress. */
+  stressed?: { description: string; members: { memberId: string; memberLabel: string; rows: Record<StressKey, string>[]; lead: string | null }[] } | null;
   percentiles: number[];
   assumptions: {
     inflation: string;
@@ -95,11 +137,22 @@ export type RunForReport = {
   result: StoredResult;
   /** The scheme's current default when the run was made: pinned first, and what differences are measured from. */
   baselineOptionId: string | null;
+  /** The exact figures at the report's λ (server/services/runs.ts exactFiguresAt), base and stressed. */
+  figures: { base: ExactFigures; stressed: ExactFigures | null };
 };
 
 export function buildReportContent(
   run: RunForReport,
-  opts: { title: string; schemeName: string; currency: string; lambda: number; createdAt: Date; approvedBy: string | null },
+  opts: {
+    title: string;
+    schemeName: string;
+    currency: string;
+    lambda: number;
+    createdAt: Date;
+    approvedBy: string | null;
+    /** The decision of a signed-off review that used this run, if any. */
+    decision?: { reviewTitle: string; signedOffOn: string; sentence: string } | null;
+  },
 ): ReportContent {
   const snap = run.input;
   const sc = snap.scenario;
@@ -112,7 +165,8 @@ export function buildReportContent(
   const lambda = opts.lambda;
   const lam = lambdaText(lambda);
   const memberIds = [...new Set(res.results.map((p) => p.memberId))];
-  const ranked = new Map(memberIds.map((id) => [id, rankAt(base, sc, id, lambda, optionName)]));
+  if (run.figures.base.lambda !== lambda) throw new Error(`the report is at λ = ${lambda} but its figures are at λ = ${run.figures.base.lambda}`);
+  const ranked = new Map(memberIds.map((id) => [id, rankAt(base, run.figures.base, id, optionName)]));
 
   const baselineId = run.baselineOptionId;
   // Laid out as on screen: the current default first (with its rank), then the others by rank.
@@ -137,30 +191,65 @@ export function buildReportContent(
         },
         standardErrors: Object.fromEntries(withSe.map((k) => [k, cells[k].standardError!])),
         exactStandardErrors: Object.fromEntries(withSe.filter((k) => cells[k].exactStandardError !== null).map((k) => [k, cells[k].exactStandardError!])),
+        lead: leadCell(r, cur),
       };
     }),
   );
 
-  const differences = memberIds.map((memberId) => {
+  const label = (memberId: string) => memberLabel.get(memberId) ?? memberId;
+  const againstBaseline = memberIds.map((memberId) => {
     const rows = ranked.get(memberId)!;
-    const base = baselineOf(rows, baselineId);
-    return { memberId, memberLabel: memberLabel.get(memberId) ?? memberId, sentences: base ? differencesToBaseline(rows, base.optionId).map((d) => differenceSentence(d, base.name, cur)) : [] };
+    const b = baselineOf(rows, baselineId);
+    return { memberId, baseline: b, diffs: b ? differencesToBaseline(rows, b.optionId, exactErrors(run.figures.base, memberId)) : [] };
   });
+  const differences = againstBaseline.map(({ memberId, baseline: b, diffs }) => ({ memberId, memberLabel: label(memberId), sentences: b ? diffs.map((d) => differenceSentence(d, b.name, cur)) : [] }));
+  const differenceTables = againstBaseline.flatMap(({ memberId, baseline: b, diffs }) => (b && diffs.length ? [{ memberId, memberLabel: label(memberId), baselineName: b.name, rows: differenceRows(diffs, cur) }] : []));
+  const paths = run.figures.base.paths;
+  const ranking = memberIds.map((memberId) => ({ memberId, memberLabel: label(memberId), lead: leadSentence(ranked.get(memberId)!, cur, paths), tooClose: tooCloseLines(ranked.get(memberId)!) }));
+  const breakEvenTable = breakEvenRows(res.breakEven, optionName, memberLabel);
 
-  const breakEven = res.breakEven.map((b) => {
-    const rows = ranked.get(b.memberId)!;
-    const rankOf = (id: string) => rows.find((r) => r.optionId === id)!.rank;
-    return breakEvenSentence({
-      memberLabel: memberLabel.get(b.memberId) ?? b.memberId,
-      a: { name: optionName.get(b.optionA) ?? b.optionA, pots: sampleOf(base, b.optionA, b.memberId) },
-      b: { name: optionName.get(b.optionB) ?? b.optionB, pots: sampleOf(base, b.optionB, b.memberId) },
-      crossings: crossingsOf(b),
-      lambda,
-      leaderAtLambda: rankOf(b.optionA) < rankOf(b.optionB) ? 'a' : 'b',
-    });
-  });
+  // A stressed run: the same options and members on the same paths with the shock, at the same λ.
+  const stressedVariant = run.result.stressed;
+  const stressFigures = run.figures.stressed;
+  let stressed: ReportContent['stressed'] = null;
+  let stressSentences: string[] = [];
+  if (snap.stress && stressedVariant && stressFigures) {
+    const description = stressDescription(fundName.get(snap.stress.fundId) ?? snap.stress.fundId, snap.stress.fall, snap.stress.yearsBeforeRetirement);
+    const members = memberIds.map((memberId) => {
+        const baseRows = pinFirst(ranked.get(memberId)!, baselineId);
+        const stressedRanked = rankAt(stressedVariant, stressFigures, memberId, optionName);
+        const pairsOf = baseRows.map((b) => ({ base: b, stressed: stressedRanked.find((x) => x.optionId === b.optionId)! }));
+        return {
+          memberId,
+          memberLabel: label(memberId),
+          rows: pairsOf.map((p) => stressCells(p.base, p.stressed, cur)),
+          lead: leadSentence(stressedRanked, cur, stressFigures.paths),
+          sentence: stressSentence(label(memberId), pairsOf, cur),
+        };
+      });
+    stressed = { description, members: members.map(({ sentence: _s, ...m }) => m) };
+    stressSentences = members.map((m) => m.sentence);
+  }
 
-  const sample = run.result.sample;
+  const baselineText = baselineSentence(
+    snap.options.map((o) => ({ optionId: o.id, name: o.name })).find((o) => o.optionId === baselineId),
+    baselineId,
+  );
+  const summary: ReportSummary = {
+    question: reportQuestion({ schemeName: opts.schemeName, options: snap.options.length, members: memberIds.length, lambda }),
+    options: snap.options.map((o) => o.name),
+    baseline: baselineText,
+    keyFigures: memberIds.flatMap((memberId) => {
+      const rows: RankedOption[] = ranked.get(memberId)!;
+      const b = baselineOf(rows, baselineId);
+      const lead = leadSentence(rows, cur, paths);
+      return [...(b ? [baselineFigureSentence(label(memberId), b, rows.length, cur)] : []), ...(lead ? [lead] : [])];
+    }),
+    stress: stressed ? { description: stressed.description, sentences: stressSentences } : null,
+    decision: decisionSummary(opts.decision ?? null),
+    cautions: summaryCautions({ paths, antithetic: res.antithetic, draft: run.assumptionsDraft, inflation: percent(sc.inflation, 'rate') }),
+  };
+
   const set = snap.assumptionSet;
   return {
     title: opts.title,
@@ -180,7 +269,12 @@ export function buildReportContent(
     },
     lambda,
     lambdaDisplay: lam,
-    ceBasis: lambda === run.riskAversion ? 'run' : 'sample',
+    ceBasis: 'exact',
+    summary,
+    ranking,
+    differenceTables,
+    breakEvenTable,
+    stressed,
     percentiles: res.percentiles,
     assumptions: {
       inflation: percent(sc.inflation, 'rate'),
@@ -206,9 +300,7 @@ export function buildReportContent(
         contributionRate: percent(m.contributionRate, 'rate'),
         pot: money(m.pot, cur, 'entered'),
       })),
-      stress: snap.stress
-        ? `A stress variant was also run: ${fundName.get(snap.stress.fundId) ?? snap.stress.fundId} falls ${percent(snap.stress.fall, 'share')} in the year starting ${snap.stress.yearsBeforeRetirement} year(s) before retirement.`
-        : null,
+      stress: stressed ? `The run also has a stressed variant, on the same paths: ${stressed.description}.` : null,
     },
     options: snap.options.map((o) => {
       const eng = sc.options.find((x) => x.id === o.id)!;
@@ -229,24 +321,18 @@ export function buildReportContent(
     columns: comparisonColumns(lambda),
     comparison,
     differences,
-    baseline: baselineSentence(
-      snap.options.map((o) => ({ optionId: o.id, name: o.name })).find((o) => o.optionId === baselineId),
-      baselineId,
-    ),
-    breakEven,
+    baseline: baselineText,
+    breakEven: [],
     monteCarlo: {
       paths: res.paths,
       seed: res.seed,
       antithetic: res.antithetic,
       engineVersion: run.result.engineVersion,
-      sample: sample.kind === 'all' ? `every path (${count(sample.size)})` : `${count(sample.size)} quantiles of the path distribution`,
+      sample: `every path (${count(paths)})`,
       lines: [
         `${count(res.paths)} paths, seed ${res.seed}${res.antithetic ? ', antithetic pairs' : ''}, engine version ${run.result.engineVersion}.`,
-        'Every option and member saw the same market paths (common random numbers), so differences between options are not sampling noise between separate draws.',
-        'Standard errors: of the mean from the n − 1 sample variance; of the 50th and 5th percentiles from order-statistic intervals; of the probability as √(p(1 − p)/n); of the certainty-equivalent pot by the delta method.',
-        lambda === run.riskAversion
-          ? `Certainty equivalents at λ = ${lam} are the run's own, computed from every path.`
-          : `The run used λ = ${lambdaText(run.riskAversion)}; certainty equivalents at λ = ${lam} are computed from the stored sample of terminal pots (${sample.kind === 'all' ? 'every path' : `${count(sample.size)} quantiles`}).`,
+        STANDARD_ERRORS_TEXT,
+        ceBasisText(lambda, run.riskAversion, paths),
         'The same inputs and seed reproduce these figures exactly.',
       ],
     },

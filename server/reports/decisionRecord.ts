@@ -93,7 +93,7 @@ export function buildDecisionRecord(i: DecisionRecordInput): DecisionRecord {
     optionVersions: i.optionVersions.map((v) => ({ name: v.name, version: v.version, approvals: approvalsText(v.approvals), chosen: v.id === i.chosenVersionId })),
     runs: i.runs.map((run) => {
       // The figures at the board's λ, computed by the board report's own rules (one source for every figure).
-      const lambda = r.riskAversion ?? run.riskAversion;
+      const lambda = run.figures.base.lambda;
       const c = buildReportContent(run, { title: r.title, schemeName: i.schemeName, currency: i.currency, lambda, createdAt: i.now, approvedBy: null });
       return {
         id: run.id,

@@ -1,7 +1,7 @@
 import { schemeOf, type ServiceContext } from './context';
 import { and, desc, eq } from 'drizzle-orm';
 import type { AppContext } from '../context';
-import { assumptionSets, reports, schemeRoles, schemes, users } from '../../db/schema';
+import { assumptionSets, reports, reviewRuns, reviews, schemeRoles, schemes, users } from '../../db/schema';
 import { conflict, notFound } from '../errors';
 import { audit } from './audit';
 import { loadFinishedRun, slug } from './statements';
@@ -12,6 +12,7 @@ import { CAUTION_TEXT, date } from '../../figures';
 import { listFunds } from './funds';
 import { backgroundProducer } from '../jobs/background';
 import { queueMail } from '../email/outbox';
+import { exactFiguresAt } from './runs';
 
 /** The scheme's name and currency, which reports print. */
 async function schemeFacts(app: AppContext, schemeId: string) {
@@ -41,8 +42,9 @@ export async function createReport(app: AppContext, ctx: ServiceContext, body: R
   const createdAt = new Date();
   const lambda = body.riskAversion ?? run.riskAversion;
   const title = body.title?.trim() || `Default option review, ${date(createdAt)}`;
-  const forReport: RunForReport = { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result, baselineOptionId: run.baselineOptionId };
-  const content = buildReportContent(forReport, { title, schemeName: scheme.name, currency: scheme.currency, lambda, createdAt, approvedBy });
+  const figures = await exactFiguresAt(app.db, { ...run, status: 'done' }, lambda);
+  const forReport: RunForReport = { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result, baselineOptionId: run.baselineOptionId, figures };
+  const content = buildReportContent(forReport, { title, schemeName: scheme.name, currency: scheme.currency, lambda, createdAt, approvedBy, decision: await decisionOnRun(app, scheme.id, run.id) });
   const schemeFunds = await listFunds(app.db, scheme.id);
   const pdf = await renderBoardReport(content, forReport, schemeFunds.map((f) => f.id));
   return app.db.transaction(async (tx) => {
@@ -53,6 +55,19 @@ export async function createReport(app: AppContext, ctx: ServiceContext, body: R
     await audit(tx, ctx, { action: 'report.created', entity: 'report', entityId: row.id, after: { runId: run.id, title, riskAversion: lambda, draft: row.draft, bytes: pdf.length } });
     return { ...row, sizeBytes: pdf.length };
   });
+}
+
+/** The decision of the latest signed-off review that used this run, for the report's summary. */
+async function decisionOnRun(app: AppContext, schemeId: string, runId: string) {
+  const [r] = await app.db
+    .select({ title: reviews.title, signedOffAt: reviews.signedOffAt, record: reviews.record })
+    .from(reviews)
+    .innerJoin(reviewRuns, eq(reviewRuns.reviewId, reviews.id))
+    .where(and(eq(reviewRuns.runId, runId), eq(reviews.schemeId, schemeId), eq(reviews.status, 'signed_off')))
+    .orderBy(desc(reviews.signedOffAt))
+    .limit(1);
+  if (!r?.record || !r.signedOffAt) return null;
+  return { reviewTitle: r.title, signedOffOn: date(r.signedOffAt), sentence: r.record.decision.sentence };
 }
 
 export async function listReports(app: AppContext, schemeId: string) {

@@ -16,6 +16,7 @@ import {
   users,
 } from '../../db/schema';
 import { badRequest, conflict, notFound, type FieldIssue } from '../errors';
+import { exactFiguresAt } from './runs';
 import { buildDecisionRecord, decisionSentence, renderDecisionRecord, type DecisionRecord } from '../reports/decisionRecord';
 import { approvalsOf } from './approvals';
 import { audit } from './audit';
@@ -364,10 +365,14 @@ async function recordOf(db: DbOrTx, schemeId: string, row: ReviewRow, extra: { n
     assumptionSet: set && { version: set.version, setAt: set.setAt, approvals: (await approvalsOf(db, 'assumption_set', [set.id])).get(set.id)! },
     optionVersions: g.versions.map((v) => ({ id: v.id, name: v.name, version: v.version, approvals: vApprovals.get(v.id)! })),
     chosenVersionId: row.chosenVersionId,
-    runs: g.runs.map((gr) => {
-      const run = runs.find((x) => x.id === gr.id)!;
-      return { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result!, baselineOptionId: run.baselineOptionId };
-    }),
+    runs: await Promise.all(
+      g.runs.map(async (gr) => {
+        const run = runs.find((x) => x.id === gr.id)!;
+        // Exact figures at the board's λ; a run stored before pots were kept has them at its own λ only (the record names the λ per run).
+        const figures = await exactFiguresAt(db, run, row.riskAversion ?? run.riskAversion).catch(() => exactFiguresAt(db, run, run.riskAversion));
+        return { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: run.assumptionsDraft, riskAversion: run.riskAversion, engineVersion: run.engineVersion, input: run.input, result: run.result!, baselineOptionId: run.baselineOptionId, figures };
+      }),
+    ),
     reports: g.reports,
     signOffs: g.signOffs,
     quorum: signOffQuorum,

@@ -13,6 +13,8 @@ import { buildScenario, type ScenarioChoice, type ScenarioSnapshot } from './sce
 import { comparisonAtLambda, parseScenario, prepareScenario, type ComparisonAtLambda } from '../../simulation';
 import type { StoredResult } from '../jobs/result';
 import { loadPots, potKey } from './runPots';
+import type { DbOrTx } from '../../db/client';
+import { onlyOwnLambdaText, storedFigures, type ExactFigures } from '../../figures';
 
 export type RunRequest = Omit<ScenarioChoice, 'seed'> & { seed?: number };
 
@@ -171,15 +173,23 @@ export async function runChoices(app: AppContext, schemeId: string) {
 export async function runComparison(ctx: AppContext, schemeId: string, runId: string, query: { lambda: number; variant: 'base' | 'stressed' }) {
   const [r] = await ctx.db.select().from(projectionRuns).where(and(eq(projectionRuns.id, runId), eq(projectionRuns.schemeId, schemeId)));
   if (!r) throw notFound('No such run in this scheme.');
+  const exact = await exactComparison(ctx.db, r, query);
+  if (!exact) throw conflict('This run was stored before every path’s pot was kept (engine before 2.0.0). Run it again to compare the options at any λ.');
+  return exact;
+}
+
+type StoredRun = Pick<RunRow, 'id' | 'status' | 'input' | 'result' | 'engineVersion' | 'riskAversion'>;
+
+/** The exact comparison of a stored run at λ (see runComparison); null when its pots were not kept. */
+async function exactComparison(db: DbOrTx, r: StoredRun, query: { lambda: number; variant: 'base' | 'stressed' }) {
   if (r.status !== 'done' || !r.result) throw conflict('That run has not finished; comparisons need a finished run.');
+  const runId = r.id;
   const snapshot = r.input as ScenarioSnapshot;
   const stored = r.result as StoredResult;
   const variant = query.variant === 'base' ? stored.base : stored.stressed;
   if (!variant) throw badRequest('Some fields are not valid.', [{ path: 'variant', message: 'this run has no stressed variant' }]);
-  const pots = await loadPots(ctx.db, runId, query.variant);
-  if (pots.size === 0) {
-    throw conflict('This run was stored before every path’s pot was kept (engine before 2.0.0). Run it again to compare the options at any λ.');
-  }
+  const pots = await loadPots(db, runId, query.variant);
+  if (pots.size === 0) return null;
   const scenario = parseScenario(query.variant === 'stressed' ? { ...snapshot.scenario, stress: snapshot.stress } : snapshot.scenario);
   const prepared = prepareScenario(scenario);
   const potsOf = (o: number, m: number) => {
@@ -207,4 +217,18 @@ export async function runComparison(ctx: AppContext, schemeId: string, runId: st
     ranking: parts.flatMap((p) => p.ranking),
     breakEven: variant.result.breakEven.map(({ memberId, optionA, optionB, status, crossings }) => ({ memberId, optionA, optionB, status, crossings: crossings ?? [] })),
   };
+}
+
+/**
+ * The exact figures of a finished run at λ for its base and stressed variants, as reports and
+ * decision records print them: from every path's pot, or — for a run stored before pots were
+ * kept — the engine's own full-sample figures at the run's λ (409 at any other λ: nothing is
+ * approximated).
+ */
+export async function exactFiguresAt(db: DbOrTx, r: StoredRun, lambda: number): Promise<{ base: ExactFigures; stressed: ExactFigures | null }> {
+  const stored = r.result as StoredResult;
+  const base = await exactComparison(db, r, { lambda, variant: 'base' });
+  if (base) return { base, stressed: stored.stressed ? await exactComparison(db, r, { lambda, variant: 'stressed' }) : null };
+  if (lambda !== r.riskAversion) throw conflict(onlyOwnLambdaText(r.riskAversion));
+  return { base: storedFigures(stored.base), stressed: stored.stressed ? storedFigures(stored.stressed) : null };
 }

@@ -3,9 +3,8 @@ import { and, eq, sql } from 'drizzle-orm';
 import { parse } from 'csv-parse/sync';
 import { assumptionSets, auditEvents, illustrativeMembers, reports } from '../../db/schema';
 import { schemeOptions } from '../helpers/options';
-import { certaintyEquivalentPot } from '../../simulation';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
-import { CAUTION_TEXT, DRAFT_TEXT, lambda as lambdaText, money, percent } from '../../figures';
+import { breakEvenCell, CAUTION_TEXT, DRAFT_TEXT, lambda as lambdaText, money, percent } from '../../figures';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 import { insertFinishedRun } from './route-examples/reports';
 import { download, pdfText, waitForRun } from './reports-helpers';
@@ -89,10 +88,15 @@ describe('board scenario reports', () => {
       expect(text).toContain(percent(a.probabilityReachingTarget, 'chance'));
       expect(text).toContain(money(a.standardError.real, 'GBP', 'standardError'));
     }
+    // Break-even λ as one table: each pair's cell (none, or every crossing with its interval).
     for (const b of run.result.base.result.breakEven) {
-      if (b.status === 'found') expect(text).toContain(`when λ is below ${lambdaText(b.lambda)}`);
-      else expect(text).toContain('at every λ from −5 to 50');
+      const cell = breakEvenCell(b);
+      if (b.status === 'found') expect(cell.text).toContain(lambdaText(b.crossings[0].lambda));
+      expect(text).toContain(cell.text);
     }
+    expect(text).toContain('Break-even λ (95% interval)');
+    expect(text).not.toMatch(/ranks above/);
+    expect(text).not.toMatch(/not sampling noise/);
     expect(text).toContain(squash(CAUTION_TEXT));
     expect(text).not.toContain('DRAFT');
   });
@@ -105,7 +109,9 @@ describe('board scenario reports', () => {
       expect(text).toContain(row.display.percentilesReal.p50);
       expect(text).toContain(row.display.certaintyEquivalentPot);
     }
-    for (const sentence of r.body.content.breakEven) expect(text).toContain(squash(sentence));
+    expect(r.body.content.breakEven).toEqual([]);
+    for (const row of r.body.content.breakEvenTable) expect(text).toContain(row.text);
+    for (const line of [r.body.content.summary.question, ...r.body.content.summary.keyFigures]) expect(text).toContain(squash(line));
     expect(r.body.content.caution).toBe(CAUTION_TEXT);
   });
 
@@ -139,20 +145,23 @@ describe('board scenario reports', () => {
     expect(csv.body.toString('utf8')).toContain(CAUTION_TEXT);
   });
 
-  it('states certainty equivalents at a chosen λ other than the run’s, from the stored sample', async () => {
+  it('states certainty equivalents at a chosen λ other than the run’s exactly as the comparison endpoint gives them (every path)', async () => {
     const r = await trustee.post(R(), { runId: run.id, riskAversion: 5 });
     expect(r.status).toBe(201);
     const got = await board.get(`${R()}/${r.body.id}`);
-    const row = got.body.content.comparison[0];
-    const pair = run.result.base.result.results.find((p: { optionId: string; memberId: string }) => p.optionId === row.optionId && p.memberId === row.memberId);
-    const sample = run.result.base.samples.find((x: { optionId: string; memberId: string }) => x.optionId === pair.optionId && x.memberId === pair.memberId);
-    const expected = certaintyEquivalentPot(sample.realPots, 5);
-    expect(row.exact.certaintyEquivalentPot).toBe(expected);
-    // More risk-averse ⇒ a lower certainty equivalent than at λ = 2.
-    expect(expected).toBeLessThan(pair.atRetirement.certaintyEquivalent.realPot);
+    const exact = await board.get(`/schemes/${s.schemeId}/runs/${run.id}/comparison?lambda=5`);
+    expect(exact.status).toBe(200);
     const { text } = await pdfText((await download(board, `${R()}/${r.body.id}/pdf`)).body);
-    expect(text).toContain(money(expected, 'GBP'));
-    expect(text).toContain('certainty equivalents at λ = 5');
+    for (const row of got.body.content.comparison) {
+      const own = exact.body.pairs.find((p: { optionId: string; memberId: string }) => p.optionId === row.optionId && p.memberId === row.memberId).certaintyEquivalent;
+      expect(row.exact.certaintyEquivalentPot).toBe(own.realPot);
+      expect(row.exactStandardErrors.certaintyEquivalentPot).toBe(own.standardError);
+      const pair = run.result.base.result.results.find((p: { optionId: string; memberId: string }) => p.optionId === row.optionId && p.memberId === row.memberId);
+      // More risk-averse ⇒ a lower certainty equivalent than at λ = 2.
+      expect(own.realPot).toBeLessThan(pair.atRetirement.certaintyEquivalent.realPot);
+      expect(text).toContain(money(own.realPot, 'GBP'));
+    }
+    expect(text).toContain('certainty equivalents at λ = 5 are computed again from every one of the 600 paths');
   });
 
   it('marks a report from draft assumptions as DRAFT on every page', async () => {

@@ -47,22 +47,23 @@ describe('comparing default options', () => {
       const ranks = async () => (await ranked.allInnerTexts()).map((t) => Number(/^(\d+)\./.exec(t)?.[1])).sort();
       await screenshot(page, 'compare-wide');
 
-      const sentence = page.getByTestId('break-even-sentence');
-      // One sentence for the top-ranked option against each other one.
-      const sentences = async () => (await sentence.allInnerTexts()).join(' ');
-      expect(await sentence.count()).toBe(3);
+      // Break-even λ as one small table (member × pair of options), not a sentence per pair.
+      const breakEven = await page.getByTestId('break-even-table').innerText();
+      expect(breakEven).toMatch(/Break-even λ \(95% interval\)/);
+      expect(await page.getByTestId('break-even-sentence').count()).toBe(0);
+      // Each λ's certainty equivalents come from the server, from every path.
+      const ces = async () => (await page.getByTestId('cell-certaintyEquivalentPot').allInnerTexts()).join(' | ');
       const firstAt2 = await ranked.first().innerText();
-      const sentenceAt2 = await sentences();
-      expect(sentenceAt2).toMatch(/ranks above/);
+      const atTwo = await ces();
       await page.getByRole('button', { name: 'λ 0', exact: true }).click();
       await page.getByText('Options ranked at λ = 0').waitFor();
-      const sentenceAt0 = await sentences();
+      const atZero = await ces();
       await page.getByRole('button', { name: 'λ 8', exact: true }).click();
       await page.getByText('Options ranked at λ = 8').waitFor();
-      const sentenceAt8 = await sentences();
+      const atEight = await ces();
       const firstAt8 = await ranked.first().innerText();
-      // A risk-neutral board and a strongly averse one should not rank the demo options alike.
-      expect(new Set([sentenceAt0, sentenceAt2, sentenceAt8]).size, `${sentenceAt0} | ${sentenceAt2} | ${sentenceAt8}`).toBeGreaterThan(1);
+      // A risk-neutral board and a strongly averse one value the same spread of pots differently.
+      expect(new Set([atZero, atTwo, atEight]).size, `${atZero} / ${atTwo} / ${atEight}`).toBe(3);
       expect(`${firstAt2} ${firstAt8}`).toMatch(/^\d\. Balanced lifecycle/);
       expect(await ranks()).toEqual([1, 2, 3, 4]);
 

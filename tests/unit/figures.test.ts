@@ -3,16 +3,26 @@ import fc from 'fast-check';
 import {
   baselineOf,
   baselineSentence,
-  breakEvenSentence,
-  ceStandardError,
+  BREAK_EVEN_COLUMNS,
+  breakEvenRows,
   compactMoney,
   count,
-  crossingsOf,
+  differenceCells,
   date,
   dateTime,
   daysBetween,
   difference,
   differenceSentence,
+  leadCell,
+  leadSentence,
+  NO_TARGET_TEXT,
+  pairedDifference,
+  rankAt,
+  storedFigures,
+  TOO_CLOSE_TEXT,
+  tooCloseLines,
+  tooCloseNote,
+  type ExactFigures,
   differencesToBaseline,
   lambda,
   money,
@@ -32,9 +42,9 @@ import {
   wholeTicks,
   type RankedOption,
 } from '../../figures';
-import { certaintyEquivalentPot } from '../../simulation';
+import { separation } from '../../simulation';
+import type { StoredVariant } from '../../server/jobs/result';
 import { numberCell } from '../../server/uploads';
-import { sampleVariance } from '../../simulation/statistics';
 
 describe('money, one rule per context', () => {
   it.each([
@@ -214,20 +224,6 @@ describe('axis ticks from d3-scale', () => {
   });
 });
 
-describe('certainty-equivalent standard error', () => {
-  it('at λ = 0 is the standard error of the mean, s/√n with the n − 1 variance (textbook formula)', () => {
-    const pots = Array.from({ length: 500 }, (_, i) => 50_000 + ((i * 7919) % 1000) * 120);
-    expect(ceStandardError(pots, 0, pots.length)).toBeCloseTo(Math.sqrt(sampleVariance(pots) / pots.length), 6);
-  });
-
-  it('at λ = ½ (log utility) is CE · sd(ln W)/√n', () => {
-    const pots = Array.from({ length: 400 }, (_, i) => 30_000 * Math.exp(((i % 40) - 20) / 40));
-    const logs = pots.map(Math.log);
-    const expected = (certaintyEquivalentPot(pots, 0.5) * Math.sqrt(sampleVariance(logs))) / Math.sqrt(pots.length);
-    expect(ceStandardError(pots, 0.5, pots.length)).toBeCloseTo(expected, 6);
-  });
-});
-
 describe('differences to the baseline', () => {
   it('is too close to call only when within two standard errors, and unknown without one', () => {
     expect(SEPARATION_Z).toBe(2);
@@ -246,7 +242,7 @@ describe('differences to the baseline', () => {
     expect(d.median).toEqual({ value: 22_000, standardError: 9_000, tooCloseToCall: false });
     expect(d.chance?.tooCloseToCall).toBeNull();
     expect(differenceSentence(d, 'Steady', 'GBP')).toBe(
-      'Spread against Steady: certainty-equivalent pot −£6,000 (within sampling error; about 12,000 paths would separate it), median pot +£22,000, 5th percentile pot −£12,000, chance of reaching the income target +12 percentage points.',
+      'Spread against Steady: certainty-equivalent pot −£6,000 ± £4,000 (not separated by the simulation noise), median pot +£22,000 ± £9,000, chance of reaching the income target +12 percentage points.',
     );
   });
 });
@@ -271,27 +267,152 @@ describe('the baseline: the scheme’s current default', () => {
   });
 });
 
-describe('break-even sentences', () => {
-  // Two invented samples: Steady narrow, Spread wide with a higher mean; they cross once, near λ = 0.83.
-  const steady = Array.from({ length: 200 }, (_, i) => 100_000 + (i % 10) * 1_000);
-  const spread = Array.from({ length: 200 }, (_, i) => 40_000 + (i % 20) * 9_000);
-  const base = { a: { name: 'Steady', pots: steady }, b: { name: 'Spread', pots: spread }, lambda: 2 };
 
-  it('reads an engine entry with one crossing or a list of them', () => {
-    expect(crossingsOf({ status: 'found', lambda: 1.2 })).toEqual({ status: 'crossings', lambdas: [1.2] });
-    expect(crossingsOf({ status: 'found', lambdas: [8, 0.5, 99] })).toEqual({ status: 'crossings', lambdas: [0.5, 8] });
-    expect(crossingsOf({ status: 'none-in-range', lambda: null })).toEqual({ status: 'none', lambdas: [] });
-    expect(crossingsOf({ status: 'identical', lambda: null }).status).toBe('identical');
-    expect(crossingsOf({ status: 'found', lambda: 0.5, crossings: [{ lambda: 0.5 }, { lambda: 7 }] }).lambdas).toEqual([0.5, 7]);
+// ---- Exact figures at λ: the too-close band, the paths estimate, the break-even table -----------
+
+/** An engine paired difference (A − B) as the comparison endpoint returns it. */
+const engineDiff = (value: number, se: number | null, paths: number) => ({ value, standardError: se, ...separation(value, se, paths) });
+
+/** Three invented options for one member: Steady leads Spread inside the noise; Spread leads Cautious clearly. */
+function threeOptions(paths = 10_000) {
+  const pair = (optionId: string, p50: number, chance: number | null) =>
+    ({ optionId, memberId: 'm', atRetirement: { percentiles: { real: { p50, p5: p50 / 2 } }, probabilityReachingTarget: chance }, extraStandardErrors: { p50Real: 900, p5Real: 700, probabilityReachingTarget: chance === null ? null : 0.011 } });
+  const variant = { result: { paths, riskAversion: 2, results: [pair('spread', 200_000, 0.4), pair('steady', 190_000, 0.35), pair('cautious', 170_000, 0.2)] } } as unknown as StoredVariant;
+  const ce = (optionId: string, realPot: number, standardError: number) => ({ optionId, memberId: 'm', certaintyEquivalent: { realPot, realAnnualReturn: 0.03, standardError } });
+  const cmp = (optionA: string, optionB: string, d: number, se: number) => ({
+    memberId: 'm',
+    optionA,
+    optionB,
+    lambda: 5,
+    certaintyEquivalent: engineDiff(d, se, paths),
+    medianPot: engineDiff(d * 2, se * 3, paths),
+    probabilityReachingTarget: engineDiff(0.05, 0.01, paths),
+  });
+  const ex: ExactFigures = {
+    lambda: 5,
+    paths,
+    pairs: [ce('spread', 150_000, 1_500), ce('steady', 151_000, 1_400), ce('cautious', 146_000, 900)],
+    // Stored once per pair in option order (A − B): spread − steady = −1,000 (SE 600: inside 2 SE), spread − cautious = +4,000 (SE 1,000: outside).
+    differences: [cmp('spread', 'steady', -1_000, 600), cmp('spread', 'cautious', 4_000, 1_000), cmp('steady', 'cautious', 5_000, 1_100)],
+  };
+  return { variant, ex };
+}
+
+describe('ranking at λ from exact figures', () => {
+  it('orders by CE, orients each paired difference and marks a lead within 2 standard errors as too close to call', () => {
+    const { variant, ex } = threeOptions();
+    const ranked = rankAt(variant, ex, 'm', { spread: 'Spread', steady: 'Steady', cautious: 'Cautious' });
+    expect(ranked.map((r) => `${r.rank}. ${r.name}`)).toEqual(['1. Steady', '2. Spread', '3. Cautious']);
+    // Stored as spread − steady = −1,000; read the other way round it is +1,000.
+    expect(pairedDifference(ex, 'm', 'steady', 'spread', 'ce')?.value).toBe(1_000);
+    expect(ranked[0].toNext).toMatchObject({ value: 1_000, standardError: 600, tooCloseToCall: true });
+    expect(ranked[1].toNext).toMatchObject({ value: 4_000, standardError: 1_000, tooCloseToCall: false });
+    expect(ranked[2].toNext).toBeNull();
+    expect(leadCell(ranked[0], 'GBP')).toEqual({ text: '+£1,000', standardError: '± £600', mark: TOO_CLOSE_TEXT });
+    expect(leadCell(ranked[1], 'GBP')?.mark).toBeNull();
+    // 10,000 · (2 · 600 / 1,000)² = 14,400 → 15,000 (two significant figures, rounded up).
+    expect(tooCloseLines(ranked)).toEqual(['Steady (1st) and Spread (2nd): too close to call at this number of paths; about 15,000 paths would separate them.']);
   });
 
-  it('words no crossing, one crossing and several crossings in one way', () => {
-    expect(breakEvenSentence({ ...base, crossings: { status: 'none', lambdas: [] } })).toBe('Steady ranks above Spread at every λ from −5 to 50.');
-    const one = breakEvenSentence({ ...base, memberLabel: 'Mid career', crossings: { status: 'crossings', lambdas: [0.83] } });
-    expect(one).toBe('For Mid career, Spread ranks above Steady when λ is below 0.83; from 0.83, Steady ranks higher. At the chosen λ = 2, Steady ranks higher.');
-    // Several crossings (as a later engine may report): each interval names its leader, read from the samples.
-    const several = breakEvenSentence({ ...base, crossings: { status: 'crossings', lambdas: [0.83, 3, 20] } });
-    expect(several).toBe('Spread ranks above Steady when λ is below 0.83; from 0.83 to 3, Steady ranks higher; from 3 to 20, Steady ranks higher; from 20, Steady ranks higher. At the chosen λ = 2, Steady ranks higher.');
-    expect(breakEvenSentence({ ...base, crossings: { status: 'identical', lambdas: [] } })).toBe('Steady and Spread give the same pot on every path, so neither ranks above the other at any λ.');
+  it('never names a winner inside the noise, and says who leads when the lead is outside it', () => {
+    const { variant, ex } = threeOptions();
+    const ranked = rankAt(variant, ex, 'm', { spread: 'Spread', steady: 'Steady', cautious: 'Cautious' });
+    const close = leadSentence(ranked, 'GBP', ex.paths)!;
+    expect(close).toBe('Steady and Spread are not separated by the simulation noise: their certainty-equivalent pots differ by £1,000 ± £600 at 10,000 paths (about 15,000 paths would separate them), so neither should be called the better on this run.');
+    expect(close).not.toMatch(/highest|ahead|leads|better than/);
+    expect(leadSentence(ranked.slice(1), 'GBP', ex.paths)).toBe('Spread has the highest certainty-equivalent pot, ahead of Cautious by £4,000 ± £1,000: more than twice the Monte Carlo standard error.');
+    // No standard error (a run stored before paired comparisons): no winner either.
+    const unknown = [{ ...ranked[1], toNext: difference(4_000) }, ranked[2]];
+    expect(leadSentence(unknown, 'GBP', ex.paths)).toMatch(/^Spread and Cautious differ by £4,000 in certainty-equivalent pot; this run gives no standard error for the difference, so neither is called the better\.$/);
+  });
+
+  it('shows the differences to the baseline ± their standard errors, and "no target set" when the run has no target', () => {
+    const { variant, ex } = threeOptions();
+    const ranked = rankAt(variant, ex, 'm', { spread: 'Spread', steady: 'Steady', cautious: 'Cautious' });
+    const [spread] = differencesToBaseline(ranked, 'spread', (o, b, f) => (f === 'p5' ? null : pairedDifference(ex, 'm', o, b, f)));
+    expect(spread.optionId).toBe('steady');
+    const cells = differenceCells(spread, 'GBP');
+    expect([cells.ce.text, cells.ce.standardError, cells.ce.tooCloseToCall]).toEqual(['+£1,000', '± £600', true]);
+    expect([cells.chance.text, cells.chance.standardError]).toEqual(['−5 percentage points', '± 1.0 percentage point']);
+    expect(differenceCells({ ...spread, chance: null }, 'GBP').chance.text).toBe(NO_TARGET_TEXT);
+    expect(NO_TARGET_TEXT).toBe('no target set');
+  });
+});
+
+describe('the paths-needed estimate', () => {
+  // Formula: the standard error shrinks as 1/√n, so a difference d with standard error s at n paths
+  // reaches 2 standard errors at n·(2s/|d|)² paths; shown rounded up to two significant figures.
+  it.each([
+    [1_000, 600, 10_000, 15_000],
+    [100, 80, 1_000, 2_600],
+    [-300, 500, 2_000, 23_000],
+  ])('d = %d, SE = %d at %d paths → about %d paths', (d, se, n, expected) => {
+    const raw = n * ((2 * se) / Math.abs(d)) ** 2;
+    const x = difference(d, se, n);
+    expect(x.tooCloseToCall).toBe(true);
+    expect(x.pathsToSeparate).toBe(expected);
+    expect(x.pathsToSeparate!).toBeGreaterThanOrEqual(raw);
+    expect(tooCloseNote(x)).toBe(`Too close to call at this number of paths: about ${count(expected)} paths would separate them.`);
+  });
+
+  it('has the band edge at exactly two standard errors, and no estimate for a separated or zero difference', () => {
+    expect(difference(2_000, 1_000, 5_000)).toMatchObject({ tooCloseToCall: false, pathsToSeparate: null });
+    expect(difference(1_999, 1_000, 5_000).tooCloseToCall).toBe(true);
+    expect(difference(0, 1_000, 5_000)).toMatchObject({ tooCloseToCall: true, pathsToSeparate: null });
+    expect(tooCloseNote(difference(0, 1_000, 5_000))).toBe('Too close to call at this number of paths.');
+    expect(tooCloseNote(difference(2_000, 1_000, 5_000))).toBeNull();
+  });
+});
+
+describe('the break-even table', () => {
+  const names = { a: 'Steady', b: 'Spread', c: 'Cautious' };
+  const members = { m: 'Mid career' };
+  const crossing = (lambda: number, lo: number, hi: number) => ({ lambda, standardError: (hi - lo) / 3.92, interval: [lo, hi] as [number, number], favouredAbove: 'A' as const });
+
+  it('gives one row per member and pair: none, one crossing or several, each with its interval', () => {
+    const rows = breakEvenRows(
+      [
+        { memberId: 'm', optionA: 'a', optionB: 'b', status: 'none-in-range', lambda: null, crossings: [] },
+        { memberId: 'm', optionA: 'a', optionB: 'c', status: 'found', lambda: 1.571, crossings: [crossing(1.571, 1.402, 1.744)] },
+        { memberId: 'm', optionA: 'b', optionB: 'c', status: 'found', lambda: 0.83, crossings: [crossing(20, 17.5, 23.25), crossing(0.83, 0.7, 0.95), crossing(60, 55, 65)] },
+      ],
+      names,
+      members,
+    );
+    expect(rows.map((r) => [r.member, r.options, r.kind, r.text])).toEqual([
+      ['Mid career', 'Steady and Spread', 'none', 'none from −5 to 50'],
+      ['Mid career', 'Steady and Cautious', 'crossings', '1.57 (1.4 to 1.74)'],
+      // Ascending, and the crossing outside the board's range [−5, 50] left out.
+      ['Mid career', 'Spread and Cautious', 'crossings', '0.83 (0.7 to 0.95); 20 (17.5 to 23.25)'],
+    ]);
+    expect(rows[2].lambdas).toEqual([0.83, 20]);
+    expect(BREAK_EVEN_COLUMNS.map((c) => c.label)).toEqual(['Member', 'Options', 'Break-even λ (95% interval)']);
+  });
+
+  it('reads entries of runs stored before every crossing was kept, and identical options', () => {
+    const [old, same] = breakEvenRows(
+      [
+        { memberId: 'm', optionA: 'a', optionB: 'b', status: 'found', lambda: 2.4 },
+        { memberId: 'm', optionA: 'a', optionB: 'c', status: 'identical', lambda: null, crossings: [] },
+      ],
+      names,
+      members,
+    );
+    expect(old.text).toBe('2.4');
+    expect(same).toMatchObject({ kind: 'identical', text: 'same pot on every path' });
+  });
+});
+
+describe('figures a run stored at its own λ', () => {
+  it('are the engine’s full-sample certainty equivalents and paired comparisons', () => {
+    const variant = {
+      result: {
+        riskAversion: 2,
+        paths: 500,
+        results: [{ optionId: 'a', memberId: 'm', atRetirement: { certaintyEquivalent: { realPot: 120_000, realAnnualReturn: 0.021 }, uncertainty: { certaintyEquivalent: { realPot: 800 } } } }],
+        comparisons: [],
+      },
+    } as unknown as StoredVariant;
+    expect(storedFigures(variant)).toEqual({ lambda: 2, paths: 500, pairs: [{ optionId: 'a', memberId: 'm', certaintyEquivalent: { realPot: 120_000, realAnnualReturn: 0.021, standardError: 800 } }], differences: [] });
   });
 });

@@ -9,10 +9,32 @@ import { ComparisonTable } from '@/components/ComparisonTable';
 import { FanChart } from '@/components/FanChart';
 import { LambdaControl } from '@/components/LambdaControl';
 import { ProgressBar } from '@/components/ProgressBar';
-import { baselineOf, baselineSentence, breakEvenSentence, count, crossingsOf, differenceSentence, differencesToBaseline, lambda as lambdaText, money, percent, pinFirst, plural, rankAt, sampleOf, separationSentence } from '@/figures';
+import {
+  baselineOf,
+  baselineSentence,
+  breakEvenRows,
+  count,
+  differenceRows,
+  differencesToBaseline,
+  exactErrors,
+  lambda as lambdaText,
+  leadSentence,
+  money,
+  onlyOwnLambdaText,
+  percent,
+  pinFirst,
+  plural,
+  rankAt,
+  storedFigures,
+  tooCloseLines,
+  type ExactFigures,
+} from '@/figures';
 import { colors, optionStyle, space, type, WIDE_BREAKPOINT } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
-import { useRerun, useRun, type RunDetail, type StoredVariant } from '@/hooks/useRuns';
+import { useRerun, useRun, useRunComparison, type RunDetail, type StoredVariant } from '@/hooks/useRuns';
+import { ApiError } from '@/hooks/api';
+import { BreakEvenTable } from '@/components/BreakEvenTable';
+import { DifferenceTable } from '@/components/DifferenceTable';
 
 export default function RunView() {
   const { runId } = useLocalSearchParams<{ runId: string }>();
@@ -46,12 +68,12 @@ export default function RunView() {
       ) : null}
       {r.status === 'failed' ? <Notice tone="error">{`This run failed: ${r.error ?? 'no reason was recorded'}`}</Notice> : null}
       {rerun.error ? <Notice tone="error">{rerun.error.message}</Notice> : null}
-      {r.status === 'done' && r.result ? <Results run={r} currency={scheme.currency} /> : null}
+      {r.status === 'done' && r.result ? <Results run={r} schemeId={scheme.id} currency={scheme.currency} /> : null}
     </Screen>
   );
 }
 
-function Results({ run, currency }: { run: RunDetail; currency: string }) {
+function Results({ run, schemeId, currency }: { run: RunDetail; schemeId: string; currency: string }) {
   const result = run.result!;
   const { can } = useCurrentScheme();
   const router = useRouter();
@@ -61,29 +83,23 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
   const [width, setWidth] = useState(0);
   const { width: windowWidth } = useWindowDimensions();
   const names = useMemo(() => Object.fromEntries(run.options.map((o) => [o.id, o.name])), [run.options]);
+  const memberLabels = useMemo(() => Object.fromEntries(run.members.map((m) => [m.id, m.label])), [run.members]);
   const styleOf = (id: string) => optionStyle(run.options.findIndex((o) => o.id === id));
-  const scenario = run.input.scenario;
-  const ranked = useMemo(() => rankAt(result.base, scenario, memberId, lambda, names), [result.base, scenario, names, memberId, lambda]);
+  // Every figure at λ is exact, from every path's pot on the server; runs stored before pots were kept (409) show their own λ only.
+  const exact = useRunComparison(schemeId, run.id, lambda, 'base');
+  const ownLambdaOnly = exact.error instanceof ApiError && exact.error.status === 409;
+  const stressedExact = useRunComparison(schemeId, run.id, lambda, 'stressed', !!result.stressed && !ownLambdaOnly);
+  const ex: ExactFigures | undefined = ownLambdaOnly ? storedFigures(result.base) : exact.data;
+  const stressedEx: ExactFigures | undefined = result.stressed ? (ownLambdaOnly ? storedFigures(result.stressed) : stressedExact.data) : undefined;
+  const shownLambda = ex?.lambda ?? lambda;
+  const ranked = useMemo(() => (ex ? rankAt(result.base, ex, memberId, names) : []), [result.base, ex, names, memberId]);
   // Differences are measured from the scheme's current default when the run was made (else the top-ranked option).
   const baseline = baselineOf(ranked, run.baselineOptionId);
-  const differences = useMemo(() => differencesToBaseline(ranked, baseline?.optionId), [ranked, baseline]);
-  const sentences = useMemo(() => {
-    // The top-ranked option against each other one, in the engine's break-even figures (every path).
-    const top = ranked[0];
-    if (!top) return [];
-    return ranked.slice(1).map((other) => {
-      const b = result.base.result.breakEven.find((x) => x.memberId === memberId && [x.optionA, x.optionB].includes(top.optionId) && [x.optionA, x.optionB].includes(other.optionId));
-      return breakEvenSentence({
-        a: { name: top.name, pots: sampleOf(result.base, top.optionId, memberId) },
-        b: { name: other.name, pots: sampleOf(result.base, other.optionId, memberId) },
-        crossings: b ? crossingsOf(b) : { status: 'none', lambdas: [] },
-        lambda,
-        leaderAtLambda: 'a',
-      });
-    });
-  }, [ranked, result.base, memberId, lambda]);
-  const separation = ranked[0] ? separationSentence(ranked[0], differencesToBaseline(ranked)[0]) : null;
-  const stressedRanked = useMemo(() => (result.stressed ? rankAt(result.stressed, scenario, memberId, lambda, names) : null), [result.stressed, scenario, names, memberId, lambda]);
+  const differences = useMemo(() => (ex && baseline ? differenceRows(differencesToBaseline(ranked, baseline.optionId, exactErrors(ex, memberId)), currency) : []), [ranked, baseline, ex, memberId, currency]);
+  const breakEven = useMemo(() => breakEvenRows(result.base.result.breakEven, names, memberLabels), [result.base, names, memberLabels]);
+  const lead = ex ? leadSentence(ranked, currency, ex.paths) : null;
+  const tooClose = tooCloseLines(ranked);
+  const stressedRanked = useMemo(() => (result.stressed && stressedEx ? rankAt(result.stressed, stressedEx, memberId, names) : null), [result.stressed, stressedEx, names, memberId]);
   const columns = windowWidth >= WIDE_BREAKPOINT && width > 700 ? 2 : 1;
   const chartWidth = Math.floor((width - (columns - 1) * space.lg) / columns) - 2 * space.lg - 2;
   const member = run.input.members.find((m) => m.id === memberId);
@@ -117,37 +133,50 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
       </Card>
 
       <Card title="Board's risk aversion">
-        <LambdaControl value={lambda} onChange={setLambda} currency={currency} />
+        {ownLambdaOnly ? <Notice tone="warning">{onlyOwnLambdaText(run.riskAversion)}</Notice> : <LambdaControl value={lambda} onChange={setLambda} currency={currency} />}
+        {exact.error && !ownLambdaOnly ? <Notice tone="error">{exact.error.message}</Notice> : null}
       </Card>
 
-      <Card title={`Options ranked at λ = ${lambdaText(lambda)}`}>
-        {sentences.map((s) => (
-          <Text key={s} style={[type.body, { color: colors.ink, fontFamily: type.label.fontFamily }]} testID="break-even-sentence">
-            {s}
-          </Text>
-        ))}
-        {separation ? <Text style={styles.body}>{separation}</Text> : null}
-        <ComparisonTable rows={ranked} currency={currency} lambda={lambda} styleOf={styleOf} baselineId={run.baselineOptionId} />
-        <BaselineNote run={run} ranked={ranked} />
-        {differences.length && baseline ? (
-          <View style={{ gap: space.xs }} testID="differences">
-            {differences.map((d) => (
-              <Text key={d.optionId} style={styles.body}>
-                {differenceSentence(d, baseline.name, currency)}
+      <Card title={`Options ranked at λ = ${lambdaText(shownLambda)}`}>
+        {!ex ? (
+          <Loading label="Computing the figures at this λ from every path…" />
+        ) : (
+          <>
+            {lead ? (
+              <Text style={[type.body, { color: colors.ink, fontFamily: type.label.fontFamily }]} testID="lead-sentence">
+                {lead}
+              </Text>
+            ) : null}
+            <ComparisonTable rows={ranked} currency={currency} lambda={shownLambda} styleOf={styleOf} baselineId={run.baselineOptionId} />
+            {tooClose.map((t) => (
+              <Text key={t} style={styles.body} testID="too-close">
+                {t}
               </Text>
             ))}
-          </View>
-        ) : null}
+            <BaselineNote run={run} ranked={ranked} />
+          </>
+        )}
         {can('reports:create') ? (
           <View style={styles.row}>
-            <Button kind="secondary" label={`Make a board report at λ = ${lambdaText(lambda)}`} onPress={() => router.push(`/reports?run=${run.id}&lambda=${lambda}`)} />
+            <Button kind="secondary" label={`Make a board report at λ = ${lambdaText(shownLambda)}`} onPress={() => router.push(`/reports?run=${run.id}&lambda=${shownLambda}`)} />
           </View>
         ) : null}
         <Text style={styles.muted}>
-          Pots at retirement in today&apos;s money, net of charges. ± is one Monte Carlo standard error. The certainty-equivalent pot is the sure amount the board would value as highly as the spread of outcomes at this λ
-          {result.sample.kind === 'quantiles' ? `; away from the run's λ (${lambdaText(run.riskAversion)}) it is computed from ${count(result.sample.size)} stored quantiles of the ${count(run.paths)} outcomes` : ''}.
+          Pots at retirement in today&apos;s money, net of charges. ± is one Monte Carlo standard error. The certainty-equivalent pot is the sure amount the board would value as highly as the spread of outcomes at this λ, computed from all {count(run.paths)} paths.
         </Text>
       </Card>
+
+      {differences.length && baseline ? (
+        <Card title={`Against the baseline, ${baseline.name}`}>
+          <DifferenceTable rows={differences} baselineName={baseline.name} />
+        </Card>
+      ) : null}
+
+      {breakEven.length ? (
+        <Card title="Where the board's risk appetite changes the order">
+          <BreakEvenTable rows={breakEven} />
+        </Card>
+      ) : null}
 
       <Card>
         <ChanceChart rows={ranked} width={Math.max(0, width - 2 * space.lg - 2)} styleOf={styleOf} />
@@ -164,7 +193,7 @@ function Results({ run, currency }: { run: RunDetail; currency: string }) {
               </Text>
             );
           })}
-          <ComparisonTable rows={stressedRanked} currency={currency} lambda={lambda} styleOf={styleOf} baselineId={run.baselineOptionId} testID="stressed-comparison-table" />
+          <ComparisonTable rows={stressedRanked} currency={currency} lambda={shownLambda} styleOf={styleOf} baselineId={run.baselineOptionId} testID="stressed-comparison-table" />
         </Card>
       ) : null}
 

@@ -6,7 +6,9 @@ import { DataTable, type Column } from '@/components/DataTable';
 import { DownloadLink } from '@/components/DownloadLink';
 import { colors, space, type } from '@/constants/theme';
 import { useCurrentScheme } from '@/hooks/useCurrentScheme';
-import { comparisonColumns, percentileLabel } from '@/figures';
+import { comparisonColumns, percentileLabel, STRESS_COLUMNS, type StressKey } from '@/figures';
+import { BreakEvenTable } from '@/components/BreakEvenTable';
+import { DifferenceTable } from '@/components/DifferenceTable';
 import { reportFileUrl, useEmailReport, useReport, type ReportComparisonRow } from '@/hooks/useReports';
 
 
@@ -60,6 +62,38 @@ export default function ReportView() {
         {email.data ? <Notice tone="success">{`Queued for ${email.data.recipients.join(', ')}. The administrator's outbox shows when it is delivered.`}</Notice> : null}
         {email.error ? <Notice tone="error">{email.error.message}</Notice> : null}
       </Card>
+      {c.summary ? (
+        <Card title="Summary">
+          <View testID="report-summary" style={{ gap: space.xs }}>
+            <Text style={styles.body}>{c.summary.question}</Text>
+            <Text style={styles.body}>Options: {c.summary.options.join('; ')}.</Text>
+            <Text style={styles.muted}>{c.summary.baseline}</Text>
+            <Text style={[type.label, { color: colors.ink }]}>Key figures</Text>
+            {c.summary.keyFigures.map((k) => (
+              <Text key={k} style={styles.body}>
+                {k}
+              </Text>
+            ))}
+            {c.summary.stress ? (
+              <>
+                <Text style={[type.label, { color: colors.ink }]}>Under stress: {c.summary.stress.description}</Text>
+                {c.summary.stress.sentences.map((k) => (
+                  <Text key={k} style={styles.body}>
+                    {k}
+                  </Text>
+                ))}
+              </>
+            ) : null}
+            <Text style={[type.label, { color: colors.ink }]}>Decision</Text>
+            <Text style={styles.body}>{c.summary.decision}</Text>
+            {c.summary.cautions.map((k) => (
+              <Text key={k} style={styles.muted}>
+                {k}
+              </Text>
+            ))}
+          </View>
+        </Card>
+      ) : null}
       <CautionNotice draft={c.draft} />
       {c.baseline ? (
         <Text style={styles.muted} testID="report-baseline">
@@ -68,20 +102,54 @@ export default function ReportView() {
       ) : null}
       {members.map((m) => {
         const rows = c.comparison.filter((x) => x.memberId === m);
+        const ranking = c.ranking?.find((x) => x.memberId === m);
+        const table = c.differenceTables?.find((x) => x.memberId === m);
         return (
           <Card key={m} title={`${rows[0].memberLabel}: pot at retirement in today's money`}>
             <DataTable label={`Percentiles for ${rows[0].memberLabel}`} columns={pctColumns} rows={rows} rowKey={(x) => x.optionId} />
             <View style={{ height: space.md }} />
             <DataTable label={`Risk measures for ${rows[0].memberLabel}`} columns={riskColumns} rows={rows} rowKey={(x) => x.optionId} />
-            {(c.differences?.find((d) => d.memberId === m)?.sentences ?? []).map((d) => (
-              <Text key={d} style={styles.body}>
-                {d}
+            {ranking?.lead ? <Text style={[styles.body, { fontFamily: type.label.fontFamily }]}>{ranking.lead}</Text> : null}
+            {(ranking?.tooClose ?? []).map((t) => (
+              <Text key={t} style={styles.body} testID="too-close">
+                {t}
               </Text>
             ))}
+            {table ? (
+              <DifferenceTable rows={table.rows} baselineName={table.baselineName} testID={`differences-${m}`} />
+            ) : (
+              (c.differences?.find((d) => d.memberId === m)?.sentences ?? []).map((d) => (
+                <Text key={d} style={styles.body}>
+                  {d}
+                </Text>
+              ))
+            )}
           </Card>
         );
       })}
-      {c.breakEven.length ? (
+      {c.stressed ? (
+        <Card title={`Under stress: ${c.stressed.description}`}>
+          <View testID="report-stressed" style={{ gap: space.md }}>
+            {c.stressed.members.map((m) => (
+              <View key={m.memberId} style={{ gap: space.xs }}>
+                <Text style={[type.label, { color: colors.ink }]}>{m.memberLabel}</Text>
+                <DataTable
+                  label={`Figures without and with the stress for ${m.memberLabel}`}
+                  columns={STRESS_COLUMNS.map((col): Column<Record<StressKey, string>> => ({ key: col.key, title: col.label, align: col.key === 'option' ? 'left' : 'right', width: col.key === 'option' ? 170 : 150, render: (x) => x[col.key] }))}
+                  rows={m.rows}
+                  rowKey={(x) => x.option}
+                />
+                {m.lead ? <Text style={styles.body}>{m.lead}</Text> : null}
+              </View>
+            ))}
+          </View>
+        </Card>
+      ) : null}
+      {c.breakEvenTable?.length ? (
+        <Card title="Where the board's risk appetite changes the order">
+          <BreakEvenTable rows={c.breakEvenTable} />
+        </Card>
+      ) : c.breakEven.length ? (
         <Card title="Where the board's risk appetite changes the choice">
           {c.breakEven.map((s) => (
             <Text key={s} style={styles.body}>

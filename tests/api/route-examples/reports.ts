@@ -6,6 +6,7 @@ import { ENGINE_VERSION, runScenario, type ScenarioInput } from '../../../simula
 import { storeVariant, type StoredResult } from '../../../server/jobs/result';
 import type { ScenarioSnapshot } from '../../../server/services/scenario';
 import { buildReportContent } from '../../../server/reports/content';
+import { storedFigures } from '../../../figures';
 import type { Examples, Fixtures } from './types';
 
 /**
@@ -93,7 +94,7 @@ export async function insertFinishedRun(db: Db, schemeId: string, opts: { paths?
 async function insertReport(fx: Fixtures) {
   const { run, input, result } = await insertFinishedRun(fx.db, fx.schemeId, { paths: 100, tag: fx.nonce });
   const content = buildReportContent(
-    { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: false, riskAversion: 2, engineVersion: ENGINE_VERSION, input, result, baselineOptionId: run.baselineOptionId },
+    { id: run.id, finishedAt: run.finishedAt, assumptionsDraft: false, riskAversion: 2, engineVersion: ENGINE_VERSION, input, result, baselineOptionId: run.baselineOptionId, figures: { base: storedFigures(result.base), stressed: null } },
     { title: `Fixture report ${fx.nonce}`, schemeName: 'Fixture', currency: 'GBP', lambda: 2, createdAt: new Date(), approvedBy: null },
   );
   const [r] = await fx.db.insert(reports).values({ schemeId: fx.schemeId, runId: run.id, title: content.title, riskAversion: 2, draft: false, content, pdf: Buffer.from('%PDF-1.3 fixture') }).returning();
