@@ -2,7 +2,7 @@ import { Text, View } from 'react-native';
 import { Rect } from 'react-native-svg';
 import { BarChart } from 'react-native-chart-kit/v2';
 import { colors, fonts, space, type, type OptionStyle } from '@/constants/theme';
-import { percent, type RankedOption } from '@/figures';
+import { NO_TARGET_TEXT, percent, type RankedOption } from '@/figures';
 import { OptionMark } from './OptionMark';
 
 type Row = { option: string; chance: number; [key: string]: unknown };
@@ -18,7 +18,7 @@ export function ChanceChart({ rows, width, styleOf }: { rows: RankedOption[]; wi
     const chance = r.pair.atRetirement.probabilityReachingTarget;
     return chance === null ? [] : [{ option: `${r.rank}. ${r.name}`, chance }];
   });
-  const summary = rows.map((r) => `${r.name} ${percent(r.pair.atRetirement.probabilityReachingTarget, 'chance')}`).join('; ');
+  const summary = data.length ? rows.map((r) => `${r.name} ${percent(r.pair.atRetirement.probabilityReachingTarget, 'chance')}`).join('; ') : NO_TARGET_TEXT;
   const height = Math.max(140, 46 * rows.length + 50);
   return (
     <View style={{ gap: space.xs }} testID="chance-chart">

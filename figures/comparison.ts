@@ -60,7 +60,7 @@ export function comparisonCells(r: RankedOption, currency: string): Record<Compa
     medianReal: pot(a.percentiles.real.p50, se.p50Real),
     p5Real: pot(a.percentiles.real.p5, se.p5Real),
     probabilityReachingTarget: {
-      text: percent(a.probabilityReachingTarget, 'chance'),
+      text: a.probabilityReachingTarget === null ? NO_TARGET_TEXT : percent(a.probabilityReachingTarget, 'chance'),
       standardError: pm(percent(se.probabilityReachingTarget, 'chanceError')),
       exact: a.probabilityReachingTarget,
       exactStandardError: finite(se.probabilityReachingTarget),
@@ -102,13 +102,18 @@ export function tooCloseNote(d: Separable | null | undefined): string | null {
 export const LEAD_COLUMN_LABEL = 'Ahead of the next-ranked option';
 
 /** The lead cell of a ranked option: "+£1,000", "± £900" and the too-close mark; null for the last. */
-export function leadCell(r: Pick<RankedOption, 'toNext'>, currency: string): { text: string; standardError: string | null; mark: string | null } | null {
+export function leadCell(
+  r: Pick<RankedOption, 'toNext'>,
+  currency: string,
+): { text: string; standardError: string | null; mark: string | null; exact: number; exactStandardError: number | null } | null {
   const d = r.toNext;
   if (!d) return null;
   return {
     text: moneyChange(d.value, currency),
     standardError: d.standardError === null ? null : `± ${money(d.standardError, currency, 'standardError')}`,
     mark: d.tooCloseToCall ? TOO_CLOSE_TEXT : null,
+    exact: d.value,
+    exactStandardError: d.standardError,
   };
 }
 

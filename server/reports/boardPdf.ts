@@ -276,6 +276,8 @@ function summaryPage(doc: Parameters<typeof heading>[0], content: ReportContent)
 export function comparisonCsvRows(content: ReportContent) {
   const ps = content.percentiles;
   const withSe = content.columns.filter((c) => content.comparison.some((r) => r.exactStandardErrors?.[c.key] !== undefined));
+  // Each option's certainty-equivalent lead over the next-ranked one (reports made before it was stored have none).
+  const hasLead = content.comparison.some((r) => r.lead !== undefined);
   const header = [
     'member',
     'option',
@@ -287,6 +289,7 @@ export function comparisonCsvRows(content: ReportContent) {
     'target_real_pot_exact',
     ...content.columns.map((c) => `${c.csv}_as_shown`),
     ...ps.map((p) => `real_pot_p${p}_as_shown`),
+    ...(hasLead ? ['ahead_of_next_exact', 'ahead_of_next_standard_error_exact', 'ahead_of_next_as_shown', 'too_close_to_call'] : []),
   ];
   const rows = content.comparison.map((r) => [
     r.memberLabel,
@@ -299,6 +302,7 @@ export function comparisonCsvRows(content: ReportContent) {
     r.exact.targetRealPot,
     ...content.columns.map((c) => r.display[c.key]),
     ...ps.map((p) => r.display.percentilesReal[percentileKey(p)]),
+    ...(hasLead ? [r.lead?.exact, r.lead?.exactStandardError, r.lead ? [r.lead.text, r.lead.standardError].filter(Boolean).join(' ') : '', r.lead?.mark ?? ''] : []),
   ]);
   return { header, rows };
 }

@@ -62,7 +62,7 @@ export type ComparisonRow = {
   standardErrors: Partial<Record<ComparisonKey, string>>;
   exactStandardErrors: Partial<Record<ComparisonKey, number>>;
   /** Certainty-equivalent lead over the next-ranked option, and the too-close mark (absent from older reports). */
-  lead?: { text: string; standardError: string | null; mark: string | null } | null;
+  lead?: { text: string; standardError: string | null; mark: string | null; exact?: number; exactStandardError?: number | null } | null;
 };
 
 /** The first page: what the board is asked, and the answer's key figures with their uncertainty. */
