@@ -55,7 +55,7 @@ describe('route × role matrix (generated from the permission table)', () => {
       }
     }
     expect(failures).toEqual([]);
-  });
+  }, 180_000); // some hundreds of requests (every route × every role): slow on a busy machine
 
   it("answers 404 for another scheme's id, and for another scheme's objects under one's own scheme, without naming them", async () => {
     const failures: string[] = [];
