@@ -42,7 +42,7 @@ describe('route × role matrix (generated from the permission table)', () => {
       const r = await call(anon, route, ex);
       expect(r.status, `${key(route)} signed out`).toBe(401);
     }
-  });
+  }, 120_000);
 
   it('answers 2xx to allowed roles and 403 to the others', async () => {
     const failures: string[] = [];
@@ -73,7 +73,7 @@ describe('route × role matrix (generated from the permission table)', () => {
       }
     }
     expect(failures).toEqual([]);
-  });
+  }, 120_000);
 
   it('keeps the demo roles as seeded', async () => {
     const rows = await s.db.select().from(schemeRoles).where(eq(schemeRoles.schemeId, s.schemeId));
