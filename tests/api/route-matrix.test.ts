@@ -42,7 +42,7 @@ describe('route × role matrix (generated from the permission table)', () => {
       const r = await call(anon, route, ex);
       expect(r.status, `${key(route)} signed out`).toBe(401);
     }
-  });
+  }, 120_000);
 
   it('answers 2xx to allowed roles and 403 to the others', async () => {
     const failures: string[] = [];
@@ -55,7 +55,7 @@ describe('route × role matrix (generated from the permission table)', () => {
       }
     }
     expect(failures).toEqual([]);
-  });
+  }, 180_000); // some hundreds of requests (every route × every role): slow on a busy machine
 
   it("answers 404 for another scheme's id, and for another scheme's objects under one's own scheme, without naming them", async () => {
     const failures: string[] = [];
@@ -73,7 +73,7 @@ describe('route × role matrix (generated from the permission table)', () => {
       }
     }
     expect(failures).toEqual([]);
-  });
+  }, 120_000);
 
   it('keeps the demo roles as seeded', async () => {
     const rows = await s.db.select().from(schemeRoles).where(eq(schemeRoles.schemeId, s.schemeId));
