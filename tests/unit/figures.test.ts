@@ -308,7 +308,7 @@ describe('ranking at λ from exact figures', () => {
     expect(ranked[0].toNext).toMatchObject({ value: 1_000, standardError: 600, tooCloseToCall: true });
     expect(ranked[1].toNext).toMatchObject({ value: 4_000, standardError: 1_000, tooCloseToCall: false });
     expect(ranked[2].toNext).toBeNull();
-    expect(leadCell(ranked[0], 'GBP')).toEqual({ text: '+£1,000', standardError: '± £600', mark: TOO_CLOSE_TEXT });
+    expect(leadCell(ranked[0], 'GBP')).toEqual({ text: '+£1,000', standardError: '± £600', mark: TOO_CLOSE_TEXT, exact: 1_000, exactStandardError: 600 });
     expect(leadCell(ranked[1], 'GBP')?.mark).toBeNull();
     // 10,000 · (2 · 600 / 1,000)² = 14,400 → 15,000 (two significant figures, rounded up).
     expect(tooCloseLines(ranked)).toEqual(['Steady (1st) and Spread (2nd): too close to call at this number of paths; about 15,000 paths would separate them.']);
