@@ -36,14 +36,12 @@ export interface CeCurve {
   slope: Float64Array;
 }
 
-/** ln CE(λ) and d ln CE/dλ computed directly from log pots (2 passes, one exp per path). */
-export function logCeWithSlope(logs: Float64Array, lambda: number): { value: number; slope: number } {
-  const n = logs.length;
-  const e = 1 - 2 * lambda;
+/** The smallest and largest finite log pot, and whether any pot is zero (log −∞): one pass. */
+function logRange(logs: Float64Array): { hasZero: boolean; lo: number; hi: number } {
   let hasZero = false;
   let lo = Infinity;
   let hi = -Infinity;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < logs.length; i++) {
     const l = logs[i];
     if (l === -Infinity) hasZero = true;
     else {
@@ -51,6 +49,14 @@ export function logCeWithSlope(logs: Float64Array, lambda: number): { value: num
       if (l > hi) hi = l;
     }
   }
+  return { hasZero, lo, hi };
+}
+
+/** ln CE(λ) and d ln CE/dλ computed directly from log pots (2 passes, one exp per path). */
+export function logCeWithSlope(logs: Float64Array, lambda: number): { value: number; slope: number } {
+  const n = logs.length;
+  const e = 1 - 2 * lambda;
+  const { hasZero, lo, hi } = logRange(logs);
   if (lo === Infinity) return { value: -Infinity, slope: 0 };
   if (Math.abs(e) < 1e-9) {
     if (hasZero) return { value: -Infinity, slope: 0 };
@@ -82,17 +88,7 @@ export function ceCurve(logs: Float64Array): CeCurve {
   const logCe = new Float64Array(G);
   const slope = new Float64Array(G);
   const n = logs.length;
-  let hasZero = false;
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const l = logs[i];
-    if (l === -Infinity) hasZero = true;
-    else {
-      if (l < lo) lo = l;
-      if (l > hi) hi = l;
-    }
-  }
+  const { hasZero, lo, hi } = logRange(logs);
   const half = SCAN_GRID.indexOf(0.5);
   const at = logCeWithSlope(logs, 0.5);
   logCe[half] = at.value;
