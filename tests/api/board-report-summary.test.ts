@@ -1,11 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { and, eq } from 'drizzle-orm';
-import { assumptionSets, funds, illustrativeMembers } from '../../db/schema';
-import { insertOption, schemeOptions } from '../helpers/options';
+import { eq } from 'drizzle-orm';
+import { funds, illustrativeMembers } from '../../db/schema';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { money, NOT_SEPARATED_TEXT } from '../../figures';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
-import { download, pdfText, waitForRun } from './reports-helpers';
+import { currentDefaultWithCopy, download, pdfText, waitForRun } from './reports-helpers';
 
 process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
 
@@ -29,19 +28,12 @@ beforeAll(async () => {
   worker = await startRunWorker({ databaseUrl: s.url, threads: 1, log: () => {} });
   trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');
-  const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
-  const choices = await trustee.get(`/schemes/${s.schemeId}/run-choices`);
-  const current = choices.body.options.find((o: { isCurrentDefault: boolean }) => o.isCurrentDefault);
-  expect(current, 'the demo scheme has a current default').toBeTruthy();
-  const options = await schemeOptions(s.db, s.schemeId);
-  const original = options.find((o) => o.id === current.id)!;
-  const twin = await insertOption(s.db, s.schemeId, { name: 'Copy of the current default', glidePath: original.glidePath });
-  const other = options.find((o) => o.id !== current.id)!;
+  const { set, optionIds } = await currentDefaultWithCopy(trustee, s.db, s.schemeId);
   const members = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
   const [equity] = await s.db.select().from(funds).where(eq(funds.schemeId, s.schemeId)).orderBy(funds.name);
   const created = await trustee.post(`/schemes/${s.schemeId}/runs`, {
     assumptionSetId: set.id,
-    optionIds: [original.id, twin.id, other.id],
+    optionIds,
     memberIds: members.slice(0, 2).map((m) => m.id),
     paths: 800,
     seed: 9091,

@@ -7,6 +7,7 @@ import { certaintyEquivalentPot, runScenario, type ScenarioInput } from '../../s
 import { insertFinishedRun } from './route-examples/reports';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
 import { schemeOptions } from '../helpers/options';
+import { waitForRun } from './reports-helpers';
 
 // Poll the queue quickly in tests.
 process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
@@ -17,17 +18,6 @@ let worker: RunWorker;
 let ids: { setId: string; optionIds: string[]; memberIds: string[] };
 
 const runsPath = () => `/schemes/${s.schemeId}/runs`;
-
-async function waitFor(runId: string, timeoutMs = 90_000) {
-  const until = Date.now() + timeoutMs;
-  for (;;) {
-    const r = await trustee.get(`${runsPath()}/${runId}`);
-    expect(r.status).toBe(200);
-    if (r.body.status === 'done' || r.body.status === 'failed') return r.body;
-    if (Date.now() > until) throw new Error(`run ${runId} still ${r.body.status} after ${timeoutMs} ms`);
-    await new Promise((res) => setTimeout(res, 50));
-  }
-}
 
 beforeAll(async () => {
   s = await startTestServer();
@@ -59,7 +49,7 @@ describe('comparing the options of a finished run at any λ', () => {
       riskAversion: 2,
     });
     expect(created.status, JSON.stringify(created.body)).toBe(201);
-    run = await waitFor(created.body.id);
+    run = await waitForRun(trustee, s.schemeId, created.body.id);
     expect(run.result.engineVersion).toBe('2.0.0');
     // The run's own scenario, computed again here: every terminal real pot.
     engine = runScenario(run.input.scenario);
@@ -171,7 +161,7 @@ describe('running again a run stored by engine 1', () => {
     await s.db.update(projectionRuns).set({ result: original as unknown as StoredResult, engineVersion: '1.0.0' }).where(eq(projectionRuns.id, run.id));
     const again = await trustee.post(`${runsPath()}/${run.id}/rerun`);
     expect(again.status).toBe(201);
-    const second = await waitFor(again.body.id);
+    const second = await waitForRun(trustee, s.schemeId, again.body.id);
     expect(second.result.reproduction).toMatchObject({ of: run.id, matches: true, firstDifference: null });
     expect(second.engineVersion).toBe('2.0.0');
     expect(second.input.scenario.version).toBe(1);

@@ -4,7 +4,7 @@ import { and, eq } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { assumptionSets, illustrativeMembers } from '../../db/schema';
 import type { Client } from '../helpers/app';
-import { schemeOptions } from '../helpers/options';
+import { insertOption, schemeOptions } from '../helpers/options';
 
 /** The text of a PDF, as pdf-parse extracts it, with runs of white space made single spaces. */
 export async function pdfText(buf: Buffer): Promise<{ text: string; pages: number }> {
@@ -58,4 +58,21 @@ export async function finishedSchemeRun(c: Client, db: Db, schemeId: string, run
   const created = await c.post(`/schemes/${schemeId}/runs`, { assumptionSetId: set.id, optionIds: options.slice(0, run.options ?? options.length).map((o) => o.id), memberIds: members.map((m) => m.id), paths: run.paths, seed: run.seed });
   expect(created.status, JSON.stringify(created.body)).toBe(201);
   return waitForRun(c, schemeId, created.body.id);
+}
+
+/**
+ * The approved assumption set and three options to compare: the scheme's current default, an
+ * exact copy of it named "Copy of the current default" (equal on every path, so never separated
+ * from it) and one other option.
+ */
+export async function currentDefaultWithCopy(c: Client, db: Db, schemeId: string) {
+  const [set] = await db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, schemeId), eq(assumptionSets.status, 'approved')));
+  const choices = await c.get(`/schemes/${schemeId}/run-choices`);
+  const current = choices.body.options.find((o: { isCurrentDefault: boolean }) => o.isCurrentDefault);
+  expect(current, 'the demo scheme has a current default').toBeTruthy();
+  const options = await schemeOptions(db, schemeId);
+  const original = options.find((o) => o.id === current.id)!;
+  const copy = await insertOption(db, schemeId, { name: 'Copy of the current default', glidePath: original.glidePath });
+  const other = options.find((o) => o.id !== current.id)!;
+  return { set, optionIds: [original.id, copy.id, other.id] };
 }

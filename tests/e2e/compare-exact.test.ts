@@ -1,11 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { and, eq } from 'drizzle-orm';
-import { assumptionSets, illustrativeMembers } from '../../db/schema';
-import { insertOption, schemeOptions } from '../helpers/options';
+import { eq } from 'drizzle-orm';
+import { illustrativeMembers } from '../../db/schema';
 import { startRunWorker, type RunWorker } from '../../server/jobs';
 import { money, TOO_CLOSE_TEXT } from '../../figures';
 import { Client, startTestServer, type TestServer } from '../helpers/app';
-import { waitForRun } from '../api/reports-helpers';
+import { currentDefaultWithCopy, waitForRun } from '../api/reports-helpers';
 import { launch, PHONE, screenshot, signIn, WIDE } from './browser';
 
 process.env.KEELSON_QUEUE_POLL_SECONDS = '0.5';
@@ -26,15 +25,9 @@ beforeAll(async () => {
   worker = await startRunWorker({ databaseUrl: s.url, threads: 1, log: () => {} });
   trustee = new Client(s.baseUrl);
   await trustee.signIn('trustee@fernleigh.example');
-  const [set] = await s.db.select().from(assumptionSets).where(and(eq(assumptionSets.schemeId, s.schemeId), eq(assumptionSets.status, 'approved')));
-  const choices = await trustee.get(`/schemes/${s.schemeId}/run-choices`);
-  const current = choices.body.options.find((o: { isCurrentDefault: boolean }) => o.isCurrentDefault);
-  const options = await schemeOptions(s.db, s.schemeId);
-  const original = options.find((o) => o.id === current.id)!;
-  const twin = await insertOption(s.db, s.schemeId, { name: 'Copy of the current default', glidePath: original.glidePath });
-  const other = options.find((o) => o.id !== current.id)!;
+  const { set, optionIds } = await currentDefaultWithCopy(trustee, s.db, s.schemeId);
   const [member] = await s.db.select().from(illustrativeMembers).where(eq(illustrativeMembers.schemeId, s.schemeId)).orderBy(illustrativeMembers.age);
-  const created = await trustee.post(`/schemes/${s.schemeId}/runs`, { assumptionSetId: set.id, optionIds: [original.id, twin.id, other.id], memberIds: [member.id], paths: 1000, seed: 31337, riskAversion: 2 });
+  const created = await trustee.post(`/schemes/${s.schemeId}/runs`, { assumptionSetId: set.id, optionIds, memberIds: [member.id], paths: 1000, seed: 31337, riskAversion: 2 });
   expect(created.status, JSON.stringify(created.body)).toBe(201);
   run = await waitForRun(trustee, s.schemeId, created.body.id);
   expect(run.status).toBe('done');
