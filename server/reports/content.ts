@@ -38,7 +38,6 @@ import {
   type ComparisonKey,
   type DifferenceCell,
   type ExactFigures,
-  type RankedOption,
   type StressKey,
 } from '../../figures';
 
@@ -239,11 +238,10 @@ export function buildReportContent(
     question: reportQuestion({ schemeName: opts.schemeName, options: snap.options.length, members: memberIds.length, lambda }),
     options: snap.options.map((o) => o.name),
     baseline: baselineText,
-    keyFigures: memberIds.flatMap((memberId) => {
-      const rows: RankedOption[] = ranked.get(memberId)!;
-      const b = baselineOf(rows, baselineId);
-      const lead = leadSentence(rows, cur, paths);
-      return [...(b ? [baselineFigureSentence(label(memberId), b, rows.length, cur)] : []), ...(lead ? [lead] : [])];
+    // The baseline and the lead sentence already worked out above, member by member.
+    keyFigures: againstBaseline.flatMap(({ memberId, baseline: b }, i) => {
+      const lead = ranking[i].lead;
+      return [...(b ? [baselineFigureSentence(label(memberId), b, ranked.get(memberId)!.length, cur)] : []), ...(lead ? [lead] : [])];
     }),
     stress: stressed ? { description: stressed.description, sentences: stressSentences } : null,
     decision: decisionSummary(opts.decision ?? null),
